@@ -1,0 +1,11 @@
+import { defineProject } from 'vitest/config';
+
+export default defineProject({
+  resolve: { conditions: ['steadyhand-source', 'module', 'browser', 'development|production'] },
+  test: {
+    name: 'unit-web',
+    root: import.meta.dirname,
+    include: ['src/**/*.test.{ts,tsx}'],
+    environment: 'happy-dom',
+  },
+});

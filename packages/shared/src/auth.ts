@@ -1,0 +1,30 @@
+import { z } from 'zod';
+import { roleSchema } from './roles.js';
+
+export const loginRequestSchema = z.object({
+  username: z.string().trim().min(1, 'Enter your username').max(64, 'Username is too long'),
+  password: z.string().min(1, 'Enter your password').max(256, 'Password is too long'),
+});
+export type LoginRequest = z.infer<typeof loginRequestSchema>;
+
+export const publicUserSchema = z.object({
+  id: z.string(),
+  username: z.string(),
+  displayName: z.string(),
+  roles: z.array(roleSchema),
+});
+export type PublicUser = z.infer<typeof publicUserSchema>;
+
+export const MIN_PASSWORD_LENGTH = 12;
+/** New passwords: length only, no composition rules (checked against a common-password list on the server). */
+export const newPasswordSchema = z
+  .string()
+  .min(MIN_PASSWORD_LENGTH, `Use at least ${MIN_PASSWORD_LENGTH} characters`)
+  .max(256, 'Password is too long');
+
+export const usernameSchema = z
+  .string()
+  .trim()
+  .min(2, 'Username needs at least 2 characters')
+  .max(64, 'Username is too long')
+  .regex(/^[a-z0-9][a-z0-9._-]*$/, 'Use lower-case letters, digits, dot, dash or underscore');

@@ -1,0 +1,49 @@
+import { z } from 'zod';
+import { OUTCOMES } from './entries.js';
+
+export const CODE_CATEGORIES = ['adult', 'pediatric'] as const;
+export type CodeCategory = (typeof CODE_CATEGORIES)[number];
+export const CODE_STATUSES = ['active', 'ended'] as const;
+export type CodeStatus = (typeof CODE_STATUSES)[number];
+
+export const patientSchema = z.object({
+  name: z.string().trim().max(120).optional(),
+  mrn: z.string().trim().max(40).optional(),
+  birthDate: z.iso.date().optional(),
+  sex: z.enum(['female', 'male', 'unknown']).optional(),
+});
+export type Patient = z.infer<typeof patientSchema>;
+
+export const createCodeSchema = z
+  .object({
+    location: z.string().trim().max(120).optional(),
+    unitId: z.string().max(64).optional(),
+    patient: patientSchema.optional(),
+    category: z.enum(CODE_CATEGORIES).default('adult'),
+    weightKg: z.number().positive('weightKg must be above 0').max(250, 'weightKg above 250 is not plausible').optional(),
+    arrestAt: z.iso.datetime({ offset: true }).optional(),
+    /** A device-made id, so a retried start does not open a second code. */
+    id: z.uuid().optional(),
+  })
+  .strict();
+export type CreateCodeRequest = z.input<typeof createCodeSchema>;
+
+export const codeSchema = z.object({
+  id: z.string(),
+  status: z.enum(CODE_STATUSES),
+  category: z.enum(CODE_CATEGORIES),
+  weightKg: z.number().nullable(),
+  location: z.string().nullable(),
+  unitId: z.string().nullable(),
+  patient: patientSchema.nullable(),
+  arrestAt: z.string(),
+  createdAt: z.string(),
+  createdBy: z.string(),
+  endedAt: z.string().nullable(),
+  outcome: z.enum(OUTCOMES).nullable(),
+});
+export type Code = z.infer<typeof codeSchema>;
+
+export const listCodesQuerySchema = z.object({
+  status: z.enum(CODE_STATUSES).optional(),
+});

@@ -1,0 +1,45 @@
+import { defineConfig } from 'vitest/config';
+
+// Workspace packages are consumed from source in tests and in Vite (the "steadyhand-source"
+// export condition); the server's production build reads the compiled dist/ instead.
+const sourceConditions = ['steadyhand-source'];
+const resolve = { conditions: [...sourceConditions, 'module', 'browser', 'development|production'] };
+const ssr = { resolve: { conditions: [...sourceConditions, 'module', 'node', 'development|production'] } };
+
+export default defineConfig({
+  test: {
+    projects: [
+      {
+        resolve,
+        ssr,
+        test: {
+          name: 'unit-shared',
+          include: ['packages/shared/src/**/*.test.ts'],
+          environment: 'node',
+        },
+      },
+      {
+        resolve,
+        ssr,
+        test: {
+          name: 'unit-server',
+          include: ['apps/server/src/**/*.spec.ts'],
+          environment: 'node',
+        },
+      },
+      {
+        resolve,
+        ssr,
+        test: {
+          name: 'api',
+          include: ['apps/server/test/**/*.api-spec.ts'],
+          environment: 'node',
+          // Each file starts its own server on its own temporary SQLite file.
+          testTimeout: 30_000,
+          hookTimeout: 60_000,
+        },
+      },
+      './apps/web/vitest.config.ts',
+    ],
+  },
+});
