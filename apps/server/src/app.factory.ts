@@ -1,0 +1,128 @@
+import 'reflect-metadata';
+import { existsSync } from 'node:fs';
+import path from 'node:path';
+import { ConsoleLogger, type LogLevel } from '@nestjs/common';
+import { NestFactory } from '@nestjs/core';
+import type { NestExpressApplication } from '@nestjs/platform-express';
+import type { NextFunction, Request, RequestHandler, Response } from 'express';
+import { rateLimit } from 'express-rate-limit';
+import helmet from 'helmet';
+import { AppModule } from './app.module.js';
+import { AuthPassportService } from './auth/auth-passport.service.js';
+import { csrfProtection } from './auth/csrf.js';
+import { SessionService } from './auth/session.service.js';
+import type { AppConfig } from './config/config.js';
+import { openDatabase, type DatabaseHandle } from './db/database.js';
+import { requestLogger } from './common/request-logger.js';
+
+const NEST_LEVELS: Record<AppConfig['logLevel'], LogLevel[] | false> = {
+  fatal: ['fatal'],
+  error: ['fatal', 'error'],
+  warn: ['fatal', 'error', 'warn'],
+  info: ['fatal', 'error', 'warn', 'log'],
+  debug: ['fatal', 'error', 'warn', 'log', 'debug'],
+  trace: ['fatal', 'error', 'warn', 'log', 'debug', 'verbose'],
+  silent: false,
+};
+
+export interface CreatedApp {
+  app: NestExpressApplication;
+  database: DatabaseHandle;
+}
+
+/**
+ * Builds the whole server (used by main.ts and by the API tests): the database opened, checked
+ * and migrated; sessions, sign-in, CSRF and security headers in front of the /api routes; the
+ * built web app served for every other path.
+ */
+export async function createApp(config: AppConfig): Promise<CreatedApp> {
+  const database = openDatabase(config.databaseFile, config.migrationsDir);
+  const levels = NEST_LEVELS[config.logLevel];
+  const app = await NestFactory.create<NestExpressApplication>(AppModule.forRoot(config, database), {
+    logger: levels === false ? false : new ConsoleLogger({ json: true, logLevels: levels }),
+    abortOnError: false,
+  });
+  app.enableShutdownHooks();
+  app.set('trust proxy', config.trustProxy ? 1 : false);
+  app.disable('x-powered-by');
+  app.setGlobalPrefix('api');
+
+  app.use(requestLogger(config.logLevel));
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: true,
+        directives: {
+          'style-src': ["'self'", "'unsafe-inline'"], // the UI library injects its styles at run time
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'font-src': ["'self'", 'data:'],
+          'connect-src': ["'self'", ...config.allowedOrigins.map((o) => o.replace(/^http/, 'ws'))],
+          // Only over https: on plain http it would send the browser to an https port that is not there.
+          'upgrade-insecure-requests': config.secureCookies ? [] : null,
+        },
+      },
+      strictTransportSecurity: config.secureCookies,
+    }),
+  );
+
+  const sessions = app.get(SessionService);
+  const { passport } = app.get(AuthPassportService);
+  app.use(sessions.middleware);
+  app.use(absoluteSessionTimeout(config.sessionAbsoluteMs, sessions));
+  app.use(passport.initialize());
+  app.use(passport.session());
+  app.use('/api/auth/login', loginRateLimit(config.loginIpLimit));
+  app.use(csrfProtection(config.allowedOrigins));
+  serveWebApp(app, config.webDist);
+  return { app, database };
+}
+
+/** Ends a session that has lasted longer than the absolute limit, however active it was. */
+function absoluteSessionTimeout(limitMs: number, sessions: SessionService): RequestHandler {
+  return (req, _res, next) => {
+    const startedAt = req.session?.signedInAt;
+    if (!startedAt || Date.now() - startedAt <= limitMs) return next();
+    const oldSid = req.sessionID;
+    req.session.regenerate((err) => {
+      sessions.ended([oldSid]);
+      next(err);
+    });
+  };
+}
+
+/** Per-address throttling of failed sign-ins, on top of the per-account limit. */
+function loginRateLimit(limit: number): RequestHandler {
+  const limiter = rateLimit({
+    windowMs: 15 * 60 * 1000,
+    limit,
+    skipSuccessfulRequests: true,
+    standardHeaders: 'draft-7',
+    legacyHeaders: false,
+    handler: (req, res) => {
+      const resetTime = (req as Request & { rateLimit?: { resetTime?: Date } }).rateLimit?.resetTime;
+      const seconds = resetTime ? Math.max(1, Math.ceil((resetTime.getTime() - Date.now()) / 1000)) : 900;
+      res.setHeader('Retry-After', String(seconds));
+      res.status(429).json({ statusCode: 429, error: 'Too Many Requests', message: 'Too many sign-in attempts. Wait a while and try again.' });
+    },
+  });
+  return (req, res, next) => (req.method === 'POST' ? limiter(req, res, next) : next());
+}
+
+function serveWebApp(app: NestExpressApplication, webDist: string): void {
+  const indexHtml = path.join(webDist, 'index.html');
+  if (!existsSync(indexHtml)) {
+    app.use((req: Request, res: Response, next: NextFunction) => {
+      if (req.method !== 'GET' || req.path.startsWith('/api/') || req.path.startsWith('/socket.io')) return next();
+      res.status(503).type('text').send('The web app is not built yet: run `npm start` (or `pnpm build`).');
+    });
+    return;
+  }
+  // Hashed file names under assets/ never change, so browsers may keep them.
+  app.useStaticAssets(path.join(webDist, 'assets'), { prefix: '/assets/', immutable: true, maxAge: '365d', index: false });
+  app.useStaticAssets(webDist, { index: false, maxAge: 0 });
+  app.use((req: Request, res: Response, next: NextFunction) => {
+    if (req.method !== 'GET' || req.path.startsWith('/api/') || req.path.startsWith('/socket.io')) return next();
+    res.setHeader('Cache-Control', 'no-cache');
+    res.sendFile(indexHtml);
+  });
+}

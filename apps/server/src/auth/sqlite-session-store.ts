@@ -1,0 +1,94 @@
+import session from 'express-session';
+import { and, eq, lt, ne } from 'drizzle-orm';
+import type { Db } from '../db/database.js';
+import { sessions } from '../db/schema/index.js';
+
+type Callback = (err?: unknown) => void;
+
+/**
+ * express-session's store on our SQLite file, so a server restart signs nobody out. The signed-in
+ * user's id is kept in its own column so a person's sessions can be listed and ended.
+ */
+export class SqliteSessionStore extends session.Store {
+  constructor(
+    private readonly db: Db,
+    private readonly defaultTtlMs: number,
+  ) {
+    super();
+  }
+
+  private expiresAt(sess: session.SessionData): number {
+    const expires = sess.cookie.expires;
+    return expires ? new Date(expires).getTime() : Date.now() + this.defaultTtlMs;
+  }
+
+  override get(sid: string, cb: (err: unknown, session?: session.SessionData | null) => void): void {
+    try {
+      const row = this.db.select().from(sessions).where(eq(sessions.sid, sid)).get();
+      if (!row || row.expiresAt <= Date.now()) return cb(null, null);
+      cb(null, JSON.parse(row.data) as session.SessionData);
+    } catch (err) {
+      cb(err);
+    }
+  }
+
+  override set(sid: string, sess: session.SessionData, cb?: Callback): void {
+    try {
+      const now = Date.now();
+      const values = {
+        data: JSON.stringify(sess),
+        userId: sess.passport?.user ?? null,
+        expiresAt: this.expiresAt(sess),
+        lastSeenAt: now,
+      };
+      this.db
+        .insert(sessions)
+        .values({ sid, createdAt: now, ...values })
+        .onConflictDoUpdate({ target: sessions.sid, set: values })
+        .run();
+      cb?.();
+    } catch (err) {
+      cb?.(err);
+    }
+  }
+
+  override touch(sid: string, sess: session.SessionData, cb?: Callback): void {
+    try {
+      this.db
+        .update(sessions)
+        .set({ expiresAt: this.expiresAt(sess), lastSeenAt: Date.now() })
+        .where(eq(sessions.sid, sid))
+        .run();
+      cb?.();
+    } catch (err) {
+      cb?.(err);
+    }
+  }
+
+  override destroy(sid: string, cb?: Callback): void {
+    try {
+      this.db.delete(sessions).where(eq(sessions.sid, sid)).run();
+      cb?.();
+    } catch (err) {
+      cb?.(err);
+    }
+  }
+
+  /** Removes expired rows; called on a timer. */
+  prune(now = Date.now()): number {
+    return this.db.delete(sessions).where(lt(sessions.expiresAt, now)).run().changes;
+  }
+
+  /** Ends every session of one user except, optionally, one. */
+  destroyForUser(userId: string, exceptSid?: string): string[] {
+    const where = exceptSid ? and(eq(sessions.userId, userId), ne(sessions.sid, exceptSid)) : eq(sessions.userId, userId);
+    const rows = this.db.select({ sid: sessions.sid }).from(sessions).where(where).all();
+    this.db.delete(sessions).where(where).run();
+    return rows.map((r) => r.sid);
+  }
+
+  /** Records the browser of a signed-in session, for the session list. */
+  setUserAgent(sid: string, userAgent: string | undefined): void {
+    this.db.update(sessions).set({ userAgent: userAgent?.slice(0, 300) ?? null }).where(eq(sessions.sid, sid)).run();
+  }
+}

@@ -1,0 +1,55 @@
+import { index, integer, real, sqliteTable, text } from 'drizzle-orm/sqlite-core';
+import { users } from './users.js';
+
+export const codes = sqliteTable(
+  'codes',
+  {
+    id: text('id').primaryKey(),
+    status: text('status', { enum: ['active', 'ended'] }).notNull(),
+    category: text('category', { enum: ['adult', 'pediatric'] }).notNull(),
+    weightKg: real('weight_kg'),
+    location: text('location'),
+    unitId: text('unit_id'),
+    patient: text('patient', { mode: 'json' }).$type<Record<string, unknown>>(),
+    arrestAt: text('arrest_at').notNull(),
+    createdAt: text('created_at').notNull(),
+    createdBy: text('created_by')
+      .notNull()
+      .references(() => users.id),
+    endedAt: text('ended_at'),
+    outcome: text('outcome'),
+  },
+  (t) => [index('codes_status_idx').on(t.status, t.arrestAt)],
+);
+
+/**
+ * The entry log. Append-only (triggers refuse UPDATE and DELETE); `cursor` orders every write in
+ * the database and is what a screen sends back to catch up; `id` is made on the device, so a
+ * resent tap finds its stored row instead of making a second one.
+ */
+export const entries = sqliteTable(
+  'entries',
+  {
+    cursor: integer('cursor').primaryKey({ autoIncrement: true }),
+    id: text('id').notNull().unique(),
+    codeId: text('code_id')
+      .notNull()
+      .references(() => codes.id),
+    kind: text('kind').notNull(),
+    at: text('at').notNull(),
+    atMs: integer('at_ms').notNull(),
+    deviceId: text('device_id'),
+    seq: integer('seq'),
+    offsetMs: real('offset_ms'),
+    offsetUncertaintyMs: real('offset_uncertainty_ms'),
+    userId: text('user_id')
+      .notNull()
+      .references(() => users.id),
+    receivedAt: text('received_at').notNull(),
+    recordedAt: text('recorded_at').notNull(),
+    addendum: integer('addendum', { mode: 'boolean' }).notNull().default(false),
+    /** The entry as validated, kind-specific fields included. */
+    body: text('body', { mode: 'json' }).notNull().$type<Record<string, unknown>>(),
+  },
+  (t) => [index('entries_code_cursor_idx').on(t.codeId, t.cursor)],
+);

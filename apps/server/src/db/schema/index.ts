@@ -1,0 +1,4 @@
+export * from './users.js';
+export * from './audit.js';
+export * from './places.js';
+export * from './codes.js';

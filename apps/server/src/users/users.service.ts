@@ -1,0 +1,48 @@
+import { randomUUID } from 'node:crypto';
+import { ConflictException, Inject, Injectable } from '@nestjs/common';
+import { newPasswordSchema, usernameSchema, type PublicUser, type Role } from '@steadyhand/shared';
+import { hashPassword } from '../auth/password.js';
+import type { SessionUser } from '../auth/session-user.js';
+import { AuditService } from '../audit/audit.service.js';
+import { UsersRepository, type UserRow } from './users.repository.js';
+
+export function toPublicUser(u: Pick<UserRow, 'id' | 'username' | 'displayName' | 'roles'>): PublicUser {
+  return { id: u.id, username: u.username, displayName: u.displayName, roles: u.roles };
+}
+
+@Injectable()
+export class UsersService {
+  constructor(
+    @Inject(UsersRepository) private readonly repo: UsersRepository,
+    @Inject(AuditService) private readonly audit: AuditService,
+  ) {}
+
+  findByUsername(username: string): UserRow | undefined {
+    return this.repo.findByUsername(username);
+  }
+
+  /** The person behind a session, or undefined when they no longer exist or were disabled. */
+  sessionUser(id: string): SessionUser | undefined {
+    const u = this.repo.findById(id);
+    if (!u || u.disabledAt) return undefined;
+    return { ...toPublicUser(u), mustChangePassword: u.mustChangePassword };
+  }
+
+  async create(
+    input: { username: string; displayName: string; password: string; roles: Role[] },
+    actor: { userId: string | null; username: string | null },
+  ): Promise<PublicUser> {
+    const username = usernameSchema.parse(input.username);
+    const password = newPasswordSchema.parse(input.password);
+    if (this.repo.findByUsername(username)) throw new ConflictException(`A user named ${username} already exists`);
+    const id = randomUUID();
+    const passwordHash = await hashPassword(password);
+    this.repo.insert({ id, username, displayName: input.displayName.trim(), passwordHash, roles: input.roles }, new Date().toISOString());
+    this.audit.record({ action: 'user.created', userId: actor.userId, username: actor.username, detail: { id, username, roles: input.roles } });
+    return { id, username, displayName: input.displayName.trim(), roles: [...new Set(input.roles)].sort() };
+  }
+
+  count(): number {
+    return this.repo.count();
+  }
+}
