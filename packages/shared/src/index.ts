@@ -5,3 +5,5 @@ export * from './codes.js';
 export * from './protocol.js';
 export * from './live-contract.js';
 export * from './effective-log.js';
+export * from './dosing.js';
+export * from './summary.js';
