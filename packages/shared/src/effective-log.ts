@@ -69,7 +69,7 @@ export function amendEntry(
     return { ok: false, error: `${issue?.path.join('.') || 'changes'}: ${issue?.message ?? 'invalid'}` };
   }
   // Keep the server's fields (cursor, recordedAt...) that the schema strips.
-  return { ok: true, entry: { ...merged, ...(parsed.data as object) } as ClinicalEntry };
+  return { ok: true, entry: { ...merged, ...(parsed.data as object) } };
 }
 
 /**
@@ -104,7 +104,7 @@ export function effectiveEntries(entries: readonly LogEntry[]): EffectiveEntry[]
     const current = byId.get(c.target);
     if (!current) continue;
     const { original, amendments, voided, ...currentEntry } = current;
-    const applied = amendEntry(currentEntry as ClinicalEntry, c.changes);
+    const applied = amendEntry(currentEntry, c.changes);
     if (!applied.ok) continue;
     const next: EffectiveEntry = {
       ...applied.entry,
@@ -117,7 +117,9 @@ export function effectiveEntries(entries: readonly LogEntry[]): EffectiveEntry[]
     result[idx] = next;
   }
 
-  return result.sort(compareLogOrder);
+  // Parse each time once rather than inside the comparator: this runs every second on every screen.
+  const times = new Map(result.map((e) => [e.id, entryTimeMs(e)]));
+  return result.sort((a, b) => (times.get(a.id) ?? 0) - (times.get(b.id) ?? 0) || compareLogOrder(a, b));
 }
 
 /** Effective entries that count: not voided. */

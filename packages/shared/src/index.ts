@@ -7,3 +7,5 @@ export * from './live-contract.js';
 export * from './effective-log.js';
 export * from './dosing.js';
 export * from './summary.js';
+export * from './live-state.js';
+export * from './clock.js';

@@ -1,6 +1,6 @@
 import { HttpException, HttpStatus, Inject, Injectable, UnauthorizedException } from '@nestjs/common';
 import type { LoginRequest, PublicUser } from '@steadyhand/shared';
-import type { NextFunction, Request, Response } from 'express';
+import type { NextFunction, Request, RequestHandler, Response } from 'express';
 import { AuditService } from '../audit/audit.service.js';
 import { toPublicUser } from '../users/users.service.js';
 import { AuthPassportService } from './auth-passport.service.js';
@@ -29,10 +29,14 @@ export class AuthService {
     }
     req.body = body; // passport-local reads username and password from the (validated) body
     const user = await new Promise<SessionUser | false>((resolve, reject) => {
-      const next: NextFunction = (err?: unknown) => (err ? reject(err) : resolve(false));
-      this.auth.passport.authenticate('local', { session: false }, (err: unknown, u: SessionUser | false) =>
-        err ? reject(err) : resolve(u),
-      )(req, res, next);
+      const fail = (err: unknown) => reject(err instanceof Error ? err : new Error(String(err)));
+      const next: NextFunction = (err?: unknown) => (err ? fail(err) : resolve(false));
+      const authenticate = this.auth.passport.authenticate(
+        'local',
+        { session: false },
+        (err: unknown, u: SessionUser | false) => (err ? fail(err) : resolve(u)),
+      ) as RequestHandler;
+      authenticate(req, res, next);
     });
     if (!user) {
       this.throttle.recordFailure(body.username, req.ip);
