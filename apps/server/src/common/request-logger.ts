@@ -18,5 +18,5 @@ export function requestLogger(level: Level | 'silent'): RequestHandler {
     customLogLevel: (_req: IncomingMessage, res: ServerResponse, err?: Error) =>
       err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info',
     autoLogging: { ignore: (req: IncomingMessage) => req.url === '/api/health' },
-  }) as unknown as RequestHandler;
+  });
 }
