@@ -36,7 +36,6 @@ describe('role matrix: every route for every role', () => {
       const [method, pathTemplate] = key.split(' ') as [string, string];
       for (const caller of callers) {
         const path = pathTemplate.replace(/:(\w+)/g, (_m, name: string) => fixtures.param(name, caller));
-        let res: request.Response;
         let agent: ReturnType<typeof request.agent>;
         let csrf: string;
         if (caller === 'anonymous') {
@@ -50,7 +49,7 @@ describe('role matrix: every route for every role', () => {
         }
         const body = typeof rule.body === 'function' ? rule.body() : rule.body;
         const call = agent[method.toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete'](path).set('x-csrf-token', csrf);
-        res = await (body === undefined ? call : call.send(body));
+        const res = await (body === undefined ? call : call.send(body as object));
 
         const expectAllowed =
           rule.allowed === 'public' || (caller !== 'anonymous' && (rule.allowed === 'any' || rule.allowed.includes(caller)));

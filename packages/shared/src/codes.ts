@@ -47,3 +47,16 @@ export type Code = z.infer<typeof codeSchema>;
 export const listCodesQuerySchema = z.object({
   status: z.enum(CODE_STATUSES).optional(),
 });
+
+/** Details completed during or after the code: where, who, and a pediatric weight. */
+export const updateCodeSchema = z
+  .object({
+    location: z.string().trim().max(120).nullable().optional(),
+    unitId: z.string().max(64).nullable().optional(),
+    patient: patientSchema.nullable().optional(),
+    category: z.enum(CODE_CATEGORIES).optional(),
+    weightKg: z.number().positive('weightKg must be above 0').max(250, 'weightKg above 250 is not plausible').nullable().optional(),
+  })
+  .strict()
+  .refine((v) => Object.keys(v).length > 0, 'Send at least one field to change');
+export type UpdateCodeRequest = z.infer<typeof updateCodeSchema>;

@@ -25,7 +25,7 @@ const clock = (hms: string) => `2026-03-04T${hms}.000Z`;
 
 type NoBase<T> = T extends unknown ? Omit<T, 'id' | 'at'> : never;
 const entry = (at: string, fields: NoBase<LogEntry>): LogEntry =>
-  ({ id: uuid(), at, ...fields }) as LogEntry;
+  ({ id: uuid(), at, ...fields });
 
 const start = (at: string) => entry(at, { kind: 'cpr', action: 'start' });
 const stop = (at: string, reason?: 'rhythm-check' | 'shock' | 'airway' | 'rosc' | 'other') =>

@@ -8,8 +8,10 @@ export interface Fixtures {
 }
 
 /** Records the role matrix needs to call routes with parameters. */
-export async function seedFixtures(_app: TestApp, _agents: Record<Role, SignedInAgent>): Promise<Fixtures> {
-  const values: Record<string, string> = {};
+export async function seedFixtures(_app: TestApp, agents: Record<Role, SignedInAgent>): Promise<Fixtures> {
+  const { agent, csrf } = agents.recorder;
+  const code = await agent.post('/api/codes').set('x-csrf-token', csrf).send({ category: 'pediatric', weightKg: 12 }).expect(201);
+  const values: Record<string, string> = { id: (code.body as { code: { id: string } }).code.id };
   return {
     param(name) {
       const value = values[name];

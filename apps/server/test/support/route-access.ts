@@ -1,4 +1,5 @@
 import type { Role } from '@steadyhand/shared';
+import { makeEntry } from './entries.js';
 import { TEST_PASSWORD } from './test-app.js';
 
 export type Caller = 'anonymous' | Role;
@@ -23,4 +24,12 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
   'POST /api/auth/login': { allowed: 'public', body: { username: 'only.recorder', password: TEST_PASSWORD }, endsSession: true },
   'GET /api/auth/me': { allowed: 'any' },
   'POST /api/auth/logout': { allowed: 'public', endsSession: true },
+  'GET /api/protocol': { allowed: 'any' },
+  'POST /api/codes': { allowed: ['recorder', 'leader'], body: { category: 'adult' } },
+  'GET /api/codes': { allowed: 'any' },
+  'GET /api/codes/:id': { allowed: 'any' },
+  'PATCH /api/codes/:id': { allowed: ['recorder', 'leader'], body: { location: 'Emergency Bay 2' } },
+  'POST /api/codes/:id/entries': { allowed: ['recorder', 'leader'], body: () => makeEntry({ kind: 'note', text: 'matrix' }) },
+  'GET /api/codes/:id/dosing': { allowed: 'any' },
+  'GET /api/codes/:id/summary': { allowed: 'any' },
 };

@@ -1,0 +1,18 @@
+import { Module } from '@nestjs/common';
+import { AuthModule } from '../auth/auth.module.js';
+import { ProtocolModule } from '../protocol/protocol.module.js';
+import { UsersModule } from '../users/users.module.js';
+import { CodesController } from './codes.controller.js';
+import { CodesRepository } from './codes.repository.js';
+import { CodesService } from './codes.service.js';
+import { EntriesService } from './entries.service.js';
+import { EntryEvents } from './entry-events.js';
+import { LiveGateway } from './live.gateway.js';
+
+@Module({
+  imports: [AuthModule, UsersModule, ProtocolModule],
+  controllers: [CodesController],
+  providers: [CodesRepository, CodesService, EntriesService, EntryEvents, LiveGateway],
+  exports: [CodesService, EntriesService, LiveGateway],
+})
+export class CodesModule {}

@@ -1,0 +1,92 @@
+import { BadRequestException, ConflictException, ForbiddenException, Inject, Injectable, NotFoundException } from '@nestjs/common';
+import { amendEntry, hasAnyRole, liveEntries, WRITER_ROLES, type NewEntry, type StoredEntry } from '@steadyhand/shared';
+import { AuditService } from '../audit/audit.service.js';
+import type { SessionUser } from '../auth/session-user.js';
+import { CodesRepository } from './codes.repository.js';
+import { EntryEvents } from './entry-events.js';
+
+export interface AddEntryResult {
+  entry: StoredEntry;
+  /** True when this id was stored before: the same tap sent again. */
+  duplicate: boolean;
+}
+
+/**
+ * The one way an entry gets into the log, shared by the REST route and the live socket:
+ * check, commit, then tell the other screens.
+ */
+@Injectable()
+export class EntriesService {
+  constructor(
+    @Inject(CodesRepository) private readonly repo: CodesRepository,
+    @Inject(EntryEvents) private readonly events: EntryEvents,
+    @Inject(AuditService) private readonly audit: AuditService,
+  ) {}
+
+  add(user: SessionUser, codeId: string, entry: NewEntry, receivedAt = new Date().toISOString()): AddEntryResult {
+    if (!hasAnyRole(user.roles, WRITER_ROLES)) {
+      throw new ForbiddenException('Only a recorder or a team leader can add entries');
+    }
+    const code = this.repo.findCode(codeId);
+    if (!code) throw new NotFoundException(`No code with id ${codeId}`);
+
+    const earlier = this.repo.findEntry(entry.id);
+    if (earlier) {
+      if (earlier.codeId !== codeId) throw new ConflictException(`Entry ${entry.id} belongs to another code`);
+      return { entry: earlier, duplicate: true };
+    }
+    if (entry.kind === 'void' || entry.kind === 'amend') this.checkCorrection(codeId, entry);
+
+    const result = this.repo.appendEntry(entry, { codeId, userId: user.id, receivedAt, addendum: false }, (stored) => {
+      if (this.touchesEnd(stored)) this.syncCodeStatus(codeId);
+    });
+    if (!result.duplicate) {
+      if (entry.kind === 'void' || entry.kind === 'amend') {
+        this.audit.record({
+          action: entry.kind === 'void' ? 'entry.voided' : 'entry.amended',
+          userId: user.id,
+          username: user.username,
+          codeId,
+          detail: { entryId: entry.id, target: entry.target, reason: entry.reason, ...(entry.kind === 'amend' ? { changes: entry.changes } : {}) },
+        });
+      }
+      this.events.emitAdded({ codeId, entry: result.entry, cursor: result.entry.cursor });
+      if (this.touchesEnd(result.entry)) this.events.emitCodesChanged(codeId);
+    }
+    return result;
+  }
+
+  entriesAfter(codeId: string, afterCursor = 0): { entries: StoredEntry[]; cursor: number } {
+    if (!this.repo.findCode(codeId)) throw new NotFoundException(`No code with id ${codeId}`);
+    const list = this.repo.entriesOf(codeId, afterCursor);
+    return { entries: list, cursor: list.length ? list[list.length - 1]!.cursor : afterCursor };
+  }
+
+  /** A void or amend must point at an entry of the same code, and an amendment must leave a valid entry. */
+  private checkCorrection(codeId: string, entry: Extract<NewEntry, { kind: 'void' | 'amend' }>): void {
+    const target = this.repo.findEntry(entry.target);
+    if (!target || target.codeId !== codeId) throw new BadRequestException(`target ${entry.target} is not an entry of this code`);
+    if (target.kind === 'void') throw new BadRequestException('A void cannot be voided or amended; add a new entry instead');
+    if (entry.kind === 'amend') {
+      if (target.kind === 'amend') throw new BadRequestException('Amend the original entry, not an amendment');
+      const result = amendEntry(target, entry.changes);
+      if (!result.ok) throw new BadRequestException(`The amendment would leave an invalid entry: ${result.error}`);
+    }
+  }
+
+  private touchesEnd(entry: StoredEntry): boolean {
+    if (entry.kind === 'end') return true;
+    if (entry.kind === 'void' || entry.kind === 'amend') return this.repo.findEntry(entry.target)?.kind === 'end';
+    return false;
+  }
+
+  /** The code's status follows its log: ended by the first end entry that still stands. */
+  private syncCodeStatus(codeId: string): void {
+    const end = liveEntries(this.repo.entriesOf(codeId)).find((e) => e.kind === 'end');
+    if (end && end.kind === 'end') {
+      this.repo.updateCode(codeId, { status: 'ended', endedAt: new Date(end.at).toISOString(), outcome: end.outcome });
+    } else {
+      this.repo.updateCode(codeId, { status: 'active', endedAt: null, outcome: null });
+    }
+  }
+}

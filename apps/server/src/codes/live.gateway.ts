@@ -1,0 +1,178 @@
+import { HttpException, Inject, Logger } from '@nestjs/common';
+import {
+  ConnectedSocket,
+  MessageBody,
+  SubscribeMessage,
+  WebSocketGateway,
+  WebSocketServer,
+  type OnGatewayConnection,
+  type OnGatewayInit,
+} from '@nestjs/websockets';
+import {
+  codeJoinSchema,
+  entryAddSchema,
+  LIVE_NAMESPACE,
+  timePingSchema,
+  type CodeJoinAck,
+  type EntryAddAck,
+  type LiveClientToServer,
+  type LiveError,
+  type LiveServerToClient,
+  type TimePingAck,
+} from '@steadyhand/shared';
+import type { IncomingMessage, ServerResponse } from 'node:http';
+import type { Namespace, Socket } from 'socket.io';
+import type { z } from 'zod';
+import { AuthPassportService } from '../auth/auth-passport.service.js';
+import { SessionService } from '../auth/session.service.js';
+import type { SessionUser } from '../auth/session-user.js';
+import { APP_CONFIG } from '../config/config.module.js';
+import type { AppConfig } from '../config/config.js';
+import { describeZodError } from '../common/zod-validation.pipe.js';
+import { UsersService } from '../users/users.service.js';
+import { EntriesService } from './entries.service.js';
+import { EntryEvents } from './entry-events.js';
+
+interface SocketData {
+  sid: string;
+  userId: string;
+}
+type LiveSocket = Socket<LiveClientToServer, LiveServerToClient, Record<string, never>, SocketData>;
+type LiveNamespace = Namespace<LiveClientToServer, LiveServerToClient, Record<string, never>, SocketData>;
+type HandshakeRequest = IncomingMessage & { sessionID?: string; user?: SessionUser; _query?: Record<string, string> };
+type Middleware = (req: HandshakeRequest, res: ServerResponse, next: (err?: unknown) => void) => void;
+
+export const roomOf = (codeId: string) => `code:${codeId}`;
+/** Every screen that shows the board of live codes. */
+const BOARD_ROOM = 'board';
+
+/**
+ * The live link for every screen of a code. Sign-in comes from the same session cookie as the
+ * REST routes; each message is validated and authorised on its own; an entry is acknowledged
+ * only after its commit, then broadcast to the code's room.
+ */
+@WebSocketGateway({
+  namespace: LIVE_NAMESPACE,
+  // A lost link must show within 10 s on every screen.
+  pingInterval: 4000,
+  pingTimeout: 4000,
+  maxHttpBufferSize: 64 * 1024,
+  cors: false,
+})
+export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConnection<LiveSocket> {
+  private readonly logger = new Logger(LiveGateway.name);
+  @WebSocketServer() private readonly nsp!: LiveNamespace;
+
+  constructor(
+    @Inject(APP_CONFIG) private readonly config: AppConfig,
+    @Inject(SessionService) private readonly sessions: SessionService,
+    @Inject(AuthPassportService) private readonly auth: AuthPassportService,
+    @Inject(UsersService) private readonly users: UsersService,
+    @Inject(EntriesService) private readonly entries: EntriesService,
+    @Inject(EntryEvents) private readonly events: EntryEvents,
+  ) {}
+
+  afterInit(nsp: LiveNamespace): void {
+    const onlyOnHandshake = (mw: Middleware): Middleware => (req, res, next) =>
+      req._query?.sid === undefined ? mw(req, res, next) : next();
+    const { passport } = this.auth;
+    const chain: unknown[] = [this.sessions.middleware, passport.initialize(), passport.session()];
+    for (const mw of chain) nsp.server.engine.use(onlyOnHandshake(mw as Middleware));
+
+    nsp.use((socket, next) => {
+      const req = socket.request as HandshakeRequest;
+      const origin = req.headers.origin;
+      if (origin && !this.config.allowedOrigins.includes(origin)) return next(new Error(`origin not allowed: ${origin}`));
+      if (!req.user || !req.sessionID) return next(new Error('unauthorized: sign in first'));
+      socket.data = { sid: req.sessionID, userId: req.user.id };
+      next();
+    });
+
+    this.events.onAdded((event) => nsp.to(roomOf(event.codeId)).emit('entry:added', event));
+    this.events.onCodesChanged((codeId) => nsp.to(BOARD_ROOM).emit('codes:changed', { codeId }));
+    this.sessions.events.on('ended', (sid: string) => this.disconnectSession(sid));
+  }
+
+  handleConnection(socket: LiveSocket): void {
+    void socket.join(BOARD_ROOM);
+  }
+
+  private disconnectSession(sid: string): void {
+    for (const socket of this.nsp.sockets.values()) {
+      if (socket.data.sid === sid) socket.disconnect(true);
+    }
+  }
+
+  /** Disconnects every live screen of one person (used when an account is disabled). */
+  disconnectUser(userId: string): void {
+    for (const socket of this.nsp.sockets.values()) {
+      if (socket.data.userId === userId) socket.disconnect(true);
+    }
+  }
+
+  /** The person as they are now: a disabled account or a changed role takes effect at once. */
+  private currentUser(socket: LiveSocket): SessionUser | undefined {
+    const user = this.users.sessionUser(socket.data.userId);
+    if (!user) socket.disconnect(true);
+    return user;
+  }
+
+  @SubscribeMessage('code:join')
+  join(@ConnectedSocket() socket: LiveSocket, @MessageBody() payload: unknown): CodeJoinAck {
+    return this.answer(() => {
+      const request = this.parse(codeJoinSchema, payload);
+      if (!this.currentUser(socket)) return { ok: false, status: 401, error: 'signed out' };
+      const { entries, cursor } = this.entries.entriesAfter(request.codeId, request.after ?? 0);
+      void socket.join(roomOf(request.codeId));
+      return { ok: true, entries, cursor };
+    });
+  }
+
+  @SubscribeMessage('code:leave')
+  leave(@ConnectedSocket() socket: LiveSocket, @MessageBody() payload: unknown): void {
+    const parsed = codeJoinSchema.pick({ codeId: true }).safeParse(payload);
+    if (parsed.success) void socket.leave(roomOf(parsed.data.codeId));
+  }
+
+  @SubscribeMessage('entry:add')
+  add(@ConnectedSocket() socket: LiveSocket, @MessageBody() payload: unknown): EntryAddAck {
+    const receivedAt = new Date().toISOString();
+    return this.answer(() => {
+      const request = this.parse(entryAddSchema, payload);
+      const user = this.currentUser(socket);
+      if (!user) return { ok: false, status: 401, error: 'signed out' };
+      const { entry, duplicate } = this.entries.add(user, request.codeId, request.entry, receivedAt);
+      return { ok: true, entry, duplicate };
+    });
+  }
+
+  @SubscribeMessage('time:ping')
+  ping(@MessageBody() payload: unknown): TimePingAck | LiveError {
+    const t1 = Date.now();
+    const parsed = timePingSchema.safeParse(payload);
+    if (!parsed.success) return { ok: false, status: 400, error: describeZodError(parsed.error) };
+    return { t0: parsed.data.t0, t1, t2: Date.now() };
+  }
+
+  private parse<T extends z.ZodType>(schema: T, payload: unknown): z.output<T> {
+    const parsed = schema.safeParse(payload);
+    if (!parsed.success) throw new HttpException(describeZodError(parsed.error), 400);
+    return parsed.data;
+  }
+
+  /** A bad message gets an error acknowledgement; the connection stays open. */
+  private answer<T>(work: () => T): T | LiveError {
+    try {
+      return work();
+    } catch (err) {
+      if (err instanceof HttpException) {
+        const body = err.getResponse();
+        const message: unknown = typeof body === 'string' ? body : ((body as { message?: unknown }).message ?? err.message);
+        const text = Array.isArray(message) ? message.map(String).join('; ') : typeof message === 'string' ? message : err.message;
+        return { ok: false, status: err.getStatus(), error: text };
+      }
+      this.logger.error(err instanceof Error ? (err.stack ?? err.message) : String(err));
+      return { ok: false, status: 500, error: 'The server could not store this; it will be retried' };
+    }
+  }
+}
