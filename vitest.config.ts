@@ -40,6 +40,19 @@ export default defineConfig({
         },
       },
       './apps/web/vitest.config.ts',
+      {
+        resolve,
+        ssr,
+        test: {
+          name: 'e2e',
+          include: ['apps/web/e2e/**/*.e2e.ts'],
+          environment: 'node',
+          // One browser and one server at a time: the machines have two cores.
+          fileParallelism: false,
+          testTimeout: 60_000,
+          hookTimeout: 90_000,
+        },
+      },
     ],
   },
 });

@@ -1,0 +1,70 @@
+import { Badge, Heading, SimpleGrid, Stack, Text, Wrap } from '@chakra-ui/react';
+import { ROLE_LABELS, ROLES, WRITER_ROLES, type Role } from '@steadyhand/shared';
+import { HomePanel } from '../../components/ui/home-panel';
+import { PageTitle } from '../../components/ui/page-title';
+import { useCurrentUser } from '../../features/auth/hooks/use-current-user';
+import { LiveCodesPanel } from '../../features/codes/components/live-codes-panel';
+
+// What each after-the-code job will find here; the pages themselves arrive later.
+const COMING_PANELS: Partial<Record<Role, { title: string; description: string }>> = {
+  pharmacist: {
+    title: 'Drug reconciliation',
+    description:
+      'Codes waiting for you to match every drug given against the tray that was opened, flag differences and sign off the restock.',
+  },
+  reviewer: {
+    title: 'Quality review',
+    description:
+      'Finished records to read against guideline targets (time to first compression, shock and epinephrine; compression fraction), annotate and export for the registry.',
+  },
+  admin: {
+    title: 'People and places',
+    description:
+      'People and their roles, locations, the drug catalogue and default doses, reminder intervals and tray templates.',
+  },
+};
+
+export function Component() {
+  const user = useCurrentUser();
+  const held = ROLES.filter((role) => user.roles.includes(role));
+  const writerRoles = held.filter((role) => WRITER_ROLES.includes(role));
+
+  return (
+    <Stack gap="8">
+      <PageTitle title="Home" />
+      <Stack gap="3">
+        <Heading as="h1" textStyle={{ base: '3xl', md: '4xl' }} data-testid="home-heading">
+          Hello, {user.displayName}
+        </Heading>
+        {held.length > 0 ? (
+          <Wrap gap="2" align="center" aria-label="Your roles">
+            <Text as="span" color="fg.muted">
+              Your roles:
+            </Text>
+            {held.map((role) => (
+              <Badge key={role} colorPalette="brand" variant="subtle" size="lg" data-testid={`home-role-${role}`}>
+                {ROLE_LABELS[role]}
+              </Badge>
+            ))}
+          </Wrap>
+        ) : (
+          <Text>You have no roles yet. Ask an administrator to give you one.</Text>
+        )}
+      </Stack>
+
+      <SimpleGrid columns={{ base: 1, lg: writerRoles.length > 0 && held.length > writerRoles.length ? 2 : 1 }} gap="6">
+        {writerRoles.length > 0 ? <LiveCodesPanel roles={writerRoles} /> : null}
+        {held.map((role) => {
+          const panel = COMING_PANELS[role];
+          return panel ? (
+            <HomePanel key={role} testIds={[`home-panel-${role}`]} title={panel.title} description={panel.description}>
+              <Text textStyle="md" color="fg.muted">
+                Coming soon.
+              </Text>
+            </HomePanel>
+          ) : null;
+        })}
+      </SimpleGrid>
+    </Stack>
+  );
+}

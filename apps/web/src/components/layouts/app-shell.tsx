@@ -1,0 +1,104 @@
+import { Box, Container, Flex, HStack, Link, Text } from '@chakra-ui/react';
+import { useEffect, useRef, type ReactNode } from 'react';
+import { Link as RouterLink, useLocation } from 'react-router';
+import { paths } from '../../config/paths';
+import { BrandMark } from './brand-mark';
+
+interface AppShellProps {
+  /** Who is signed in, shown in the header. */
+  userName: string;
+  /** Header controls on the right (sign-out). */
+  actions?: ReactNode;
+  /** A full-width message under the header (for example why sign-out was refused). */
+  notice?: ReactNode;
+  children: ReactNode;
+}
+
+/** The frame around every signed-in page: ink header, skip link, one main region. */
+export function AppShell({ userName, actions, notice, children }: AppShellProps) {
+  const mainRef = useRef<HTMLElement>(null);
+  const location = useLocation();
+  const firstRender = useRef(true);
+
+  // After moving to another page, put keyboard and screen-reader focus at the new content.
+  useEffect(() => {
+    if (firstRender.current) {
+      firstRender.current = false;
+      return;
+    }
+    mainRef.current?.focus();
+  }, [location.pathname]);
+
+  return (
+    <Flex direction="column" minH="100dvh">
+      <SkipLink />
+      <Box as="header" bg="bg.header" color="fg.header">
+        <Container maxW="6xl" py="3">
+          <Flex align="center" justify="space-between" gap="4" wrap="wrap">
+            <Link
+              asChild
+              color="fg.header"
+              textDecoration="none"
+              _hover={{ textDecoration: 'underline' }}
+              minH="12"
+              display="inline-flex"
+              alignItems="center"
+              gap="3"
+            >
+              <RouterLink to={paths.home.getHref()}>
+                <BrandMark />
+                <Text as="span" textStyle="2xl" fontWeight="bold">
+                  Steadyhand
+                </Text>
+              </RouterLink>
+            </Link>
+            <HStack gap="4" wrap="wrap">
+              <Text as="span" textStyle="lg" color="fg.headerMuted">
+                Signed in as{' '}
+                <Text as="span" color="fg.header" fontWeight="bold">
+                  {userName}
+                </Text>
+              </Text>
+              {actions}
+            </HStack>
+          </Flex>
+        </Container>
+      </Box>
+      {notice}
+      <Box
+        as="main"
+        id="main"
+        ref={mainRef}
+        tabIndex={-1}
+        flex="1"
+        outline="none"
+        _focusVisible={{ outline: 'none' }}
+      >
+        <Container maxW="6xl" py={{ base: '6', md: '10' }}>
+          {children}
+        </Container>
+      </Box>
+    </Flex>
+  );
+}
+
+function SkipLink() {
+  return (
+    <Link
+      href="#main"
+      position="absolute"
+      left="2"
+      top="-20"
+      zIndex="skipLink"
+      bg="white"
+      color="ink.900"
+      px="4"
+      py="3"
+      fontWeight="bold"
+      borderRadius="l2"
+      _focus={{ top: '2' }}
+    >
+      Skip to main content
+    </Link>
+  );
+}
