@@ -1,12 +1,11 @@
-import { mkdirSync, mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { mkdirSync } from 'node:fs';
 import path from 'node:path';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 import { DEMO_PASSWORD, REPO_ROOT } from './server.js';
 
 export const SCREENSHOTS = path.join(REPO_ROOT, 'test-results', 'screenshots');
 
-/** Debian's Chromium, headless; never a downloaded browser. */
+/** Debian's Chromium, headless, with a fresh temporary profile (playwright makes one); never a downloaded browser. */
 export async function launchChromium(): Promise<Browser> {
   return chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
@@ -20,7 +19,6 @@ export async function launchChromium(): Promise<Browser> {
       '--disable-sync',
       '--no-first-run',
       '--disable-quic',
-      `--user-data-dir=${mkdtempSync(path.join(tmpdir(), 'steadyhand-chromium-'))}`,
     ],
   });
 }
