@@ -25,6 +25,8 @@ export default defineConfig({
           name: 'unit-server',
           include: ['apps/server/src/**/*.spec.ts'],
           environment: 'node',
+          // Password hashing is deliberately slow (scrypt, 128 MiB).
+          testTimeout: 20_000,
         },
       },
       {

@@ -1,4 +1,4 @@
-import type { Role } from '@steadyhand/shared';
+import { DEFAULT_PROTOCOL, type Role } from '@steadyhand/shared';
 import { makeEntry } from './entries.js';
 import { TEST_PASSWORD } from './test-app.js';
 
@@ -25,6 +25,8 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
   'GET /api/auth/me': { allowed: 'any' },
   'POST /api/auth/logout': { allowed: 'public', endsSession: true },
   'GET /api/protocol': { allowed: 'any' },
+  'PUT /api/protocol': { allowed: ['admin'], body: () => DEFAULT_PROTOCOL },
+  'POST /api/protocol/reset': { allowed: ['admin'] },
   'POST /api/codes': { allowed: ['recorder', 'leader'], body: { category: 'adult' } },
   'GET /api/codes': { allowed: 'any' },
   'GET /api/codes/:id': { allowed: 'any' },
