@@ -18,6 +18,9 @@ export const codes = sqliteTable(
       .references(() => users.id),
     endedAt: text('ended_at'),
     outcome: text('outcome'),
+    /** Who was in the team and in what role, completed at review. */
+    team: text('team', { mode: 'json' }).$type<{ name: string; role: string }[]>(),
+    debriefNotes: text('debrief_notes'),
   },
   (t) => [index('codes_status_idx').on(t.status, t.arrestAt)],
 );
