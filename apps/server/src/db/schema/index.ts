@@ -3,3 +3,6 @@ export * from './audit.js';
 export * from './places.js';
 export * from './codes.js';
 export * from './records.js';
+export * from './pharmacy.js';
+export * from './quality.js';
+export * from './admin.js';
