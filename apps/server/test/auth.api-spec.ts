@@ -25,6 +25,20 @@ describe('sign-in over HTTP', () => {
     expect(time.body.serverTime).toBeLessThanOrEqual(Date.now() + 5);
   });
 
+  it('keeps the demo accounts and password to itself unless demo mode is on', async () => {
+    const off = await request(app.baseUrl).get('/api/auth/demo').expect(200);
+    expect(off.body).toEqual({ enabled: false });
+    const demo = await startTestApp({ env: { STEADYHAND_DEMO: '1' } });
+    try {
+      const on = await request(demo.baseUrl).get('/api/auth/demo').expect(200);
+      expect(on.body.enabled).toBe(true);
+      expect(on.body.password).toEqual(expect.any(String));
+      expect(on.body.accounts.map((a: { username: string }) => a.username)).toContain('maren.holt');
+    } finally {
+      await demo.close();
+    }
+  });
+
   it('sends security headers on every answer', async () => {
     const res = await request(app.baseUrl).get('/api/health');
     expect(res.headers['content-security-policy']).toContain("default-src 'self'");
