@@ -4,6 +4,7 @@ import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
 import { AppProvider } from './app/provider';
 import { AppRouter } from './app/router';
+import { registerServiceWorker } from './lib/live/register-service-worker';
 
 const container = document.getElementById('root');
 if (!container) throw new Error('index.html has no #root element');
@@ -15,3 +16,5 @@ createRoot(container).render(
     </AppProvider>
   </StrictMode>,
 );
+
+registerServiceWorker();

@@ -1,6 +1,6 @@
 import { Box, Container, Flex, HStack, Link, Text } from '@chakra-ui/react';
 import { useEffect, useRef, type ReactNode } from 'react';
-import { Link as RouterLink, useLocation } from 'react-router';
+import { Link as RouterLink, useLocation, useMatch } from 'react-router';
 import { paths } from '../../config/paths';
 import { BrandMark } from './brand-mark';
 
@@ -19,6 +19,8 @@ export function AppShell({ userName, actions, notice, children }: AppShellProps)
   const mainRef = useRef<HTMLElement>(null);
   const location = useLocation();
   const firstRender = useRef(true);
+  // The recorder pad needs every pixel of a tablet: full width, little padding.
+  const onPad = useMatch(paths.codes.record.path) !== null;
 
   // After moving to another page, put keyboard and screen-reader focus at the new content.
   useEffect(() => {
@@ -33,7 +35,7 @@ export function AppShell({ userName, actions, notice, children }: AppShellProps)
     <Flex direction="column" minH="100dvh">
       <SkipLink />
       <Box as="header" bg="bg.header" color="fg.header">
-        <Container maxW="6xl" py="3">
+        <Container maxW={onPad ? 'full' : '6xl'} py={onPad ? '1' : '3'}>
           <Flex align="center" justify="space-between" gap="4" wrap="wrap">
             <Link
               asChild
@@ -74,7 +76,11 @@ export function AppShell({ userName, actions, notice, children }: AppShellProps)
         outline="none"
         _focusVisible={{ outline: 'none' }}
       >
-        <Container maxW="6xl" py={{ base: '6', md: '10' }}>
+        <Container
+          maxW={onPad ? 'full' : '6xl'}
+          px={onPad ? { base: '3', md: '4' } : undefined}
+          py={onPad ? '3' : { base: '6', md: '10' }}
+        >
           {children}
         </Container>
       </Box>

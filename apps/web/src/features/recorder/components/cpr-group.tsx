@@ -1,0 +1,63 @@
+import { SimpleGrid, Stack, Text } from '@chakra-ui/react';
+import { PadButton } from './pad-button';
+import { PadGroup } from './pad-group';
+import type { Tap } from './types';
+
+const PAUSES = [
+  { reason: 'rhythm-check', label: 'Rhythm check' },
+  { reason: 'shock', label: 'Shock' },
+  { reason: 'airway', label: 'Airway' },
+  { reason: 'other', label: 'Other' },
+] as const;
+
+/** Start, pause (with why), swap. The layout never moves; what is expected next is drawn heavier. */
+export function CprGroup({
+  running,
+  onTap,
+  disabled,
+}: {
+  running: boolean;
+  onTap: Tap;
+  disabled: boolean;
+}) {
+  return (
+    <PadGroup title="Compressions" id="cpr" accent="seaglass.600">
+      <Stack gap="2">
+        <PadButton
+          label="Start compressions"
+          detail={running ? 'running now' : 'not running'}
+          emphasis={!running}
+          colorPalette="brand"
+          disabled={disabled}
+          data-testid="cpr-start"
+          aria-label="Start compressions"
+          onClick={() => onTap({ kind: 'cpr', action: 'start' })}
+        />
+        <Text textStyle="sm" fontWeight="bold" color="ink.700" id="cpr-pause-label">
+          Pause for
+        </Text>
+        <SimpleGrid columns={2} gap="2" role="group" aria-labelledby="cpr-pause-label">
+          {PAUSES.map((p) => (
+            <PadButton
+              key={p.reason}
+              label={p.label}
+              height="compact"
+              emphasis={running && p.reason === 'rhythm-check'}
+              disabled={disabled}
+              data-testid={`cpr-pause-${p.reason}`}
+              aria-label={`Pause compressions for ${p.label.toLowerCase()}`}
+              onClick={() => onTap({ kind: 'cpr', action: 'stop', reason: p.reason })}
+            />
+          ))}
+        </SimpleGrid>
+        <PadButton
+          label="Swap compressor"
+          height="compact"
+          disabled={disabled}
+          data-testid="cpr-swap"
+          onClick={() => onTap({ kind: 'cpr', action: 'swap' })}
+        />
+      </Stack>
+    </PadGroup>
+  );
+}

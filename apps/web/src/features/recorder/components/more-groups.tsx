@@ -1,0 +1,206 @@
+import { Button, SimpleGrid, Stack, Text } from '@chakra-ui/react';
+import { OUTCOMES } from '@steadyhand/shared';
+import { useState } from 'react';
+import { AIRWAY_WORDS, OUTCOME_WORDS } from '../lib/entry-words';
+import { PadButton } from './pad-button';
+import { PadGroup } from './pad-group';
+import { Shape } from './shapes';
+import type { Tap } from './types';
+
+export function AirwayGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
+  const [capno, setCapno] = useState(false);
+  return (
+    <PadGroup title="Airway" id="airway" accent="ink.400">
+      <Stack gap="2">
+        {(['bag-mask', 'supraglottic', 'endotracheal'] as const).map((device) => (
+          <PadButton
+            key={device}
+            label={AIRWAY_WORDS[device]}
+            detail={device === 'endotracheal' && capno ? '+ waveform capnography' : undefined}
+            height="compact"
+            disabled={disabled}
+            data-testid={`airway-${device}`}
+            onClick={() => {
+              onTap(
+                device === 'endotracheal' && capno
+                  ? { kind: 'airway', device, confirmation: 'waveform-capnography' }
+                  : { kind: 'airway', device },
+              );
+              setCapno(false);
+            }}
+          />
+        ))}
+        <Button
+          role="switch"
+          aria-checked={capno}
+          aria-label="Tube confirmed by waveform capnography"
+          data-testid="airway-capno"
+          minH="16"
+          h="auto"
+          whiteSpace="normal"
+          variant={capno ? 'solid' : 'outline'}
+          colorPalette={capno ? 'brand' : 'ink'}
+          bg={capno ? undefined : 'white'}
+          borderWidth="2px"
+          borderStyle={capno ? 'solid' : 'dashed'}
+          disabled={disabled}
+          onClick={() => setCapno((c) => !c)}
+        >
+          <Shape kind={capno ? 'check' : 'ring'} size="1.3em" />
+          {capno ? 'Capnography confirmed' : 'Confirmed by capnography?'}
+        </Button>
+      </Stack>
+    </PadGroup>
+  );
+}
+
+export function AccessGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
+  return (
+    <PadGroup title="Access" id="access" accent="ink.400">
+      <SimpleGrid columns={1} gap="2">
+        <PadButton
+          label="IV access"
+          disabled={disabled}
+          data-testid="access-iv"
+          onClick={() => onTap({ kind: 'access', route: 'iv' })}
+        />
+        <PadButton
+          label="IO access"
+          disabled={disabled}
+          data-testid="access-io"
+          onClick={() => onTap({ kind: 'access', route: 'io' })}
+        />
+      </SimpleGrid>
+    </PadGroup>
+  );
+}
+
+export function Etco2Group({
+  onTap,
+  onOther,
+  disabled,
+}: {
+  onTap: Tap;
+  onOther: () => void;
+  disabled: boolean;
+}) {
+  return (
+    <PadGroup title="ETCO2 (mmHg)" id="etco2" accent="ink.400">
+      <SimpleGrid columns={2} gap="2">
+        {[10, 20, 30, 40].map((v) => (
+          <PadButton
+            key={v}
+            label={String(v)}
+            height="compact"
+            disabled={disabled}
+            data-testid={`etco2-${v}`}
+            aria-label={`ETCO2 ${v} mmHg`}
+            onClick={() => onTap({ kind: 'etco2', mmHg: v })}
+          />
+        ))}
+      </SimpleGrid>
+      <PadButton
+        mt="2"
+        label="Other value"
+        height="compact"
+        disabled={disabled}
+        data-testid="etco2-other"
+        aria-label="ETCO2, other value"
+        onClick={onOther}
+      />
+      <Text textStyle="xs" color="ink.700" mt="2">
+        Information only, never a reason on its own to stop.
+      </Text>
+    </PadGroup>
+  );
+}
+
+export function EventGroup({
+  onTap,
+  onNote,
+  disabled,
+}: {
+  onTap: Tap;
+  onNote: () => void;
+  disabled: boolean;
+}) {
+  const [ending, setEnding] = useState(false);
+  return (
+    <PadGroup title="Events" id="events" accent="seaglass.700">
+      <Stack gap="2">
+        <SimpleGrid columns={2} gap="2">
+          <PadButton
+            label="ROSC"
+            colorPalette="brand"
+            disabled={disabled}
+            data-testid="event-rosc"
+            aria-label="ROSC"
+            onClick={() => onTap({ kind: 'rosc' })}
+          />
+          <PadButton
+            label="Re-arrest"
+            disabled={disabled}
+            data-testid="event-rearrest"
+            onClick={() => onTap({ kind: 'rearrest' })}
+          />
+        </SimpleGrid>
+        <PadButton
+          label="Note"
+          detail="quick notes or text"
+          disabled={disabled}
+          data-testid="event-note"
+          onClick={onNote}
+        />
+        {ending ? (
+          <Stack
+            gap="2"
+            borderWidth="3px"
+            borderColor="ink.900"
+            borderRadius="l3"
+            p="2"
+            role="group"
+            aria-labelledby="end-outcome-label"
+          >
+            <Text id="end-outcome-label" textStyle="lg" fontWeight="bold">
+              End the code: outcome?
+            </Text>
+            <SimpleGrid columns={2} gap="2">
+              {OUTCOMES.map((o) => (
+                <PadButton
+                  key={o}
+                  label={OUTCOME_WORDS[o]}
+                  height="compact"
+                  colorPalette="ink"
+                  emphasis
+                  disabled={disabled}
+                  data-testid={`end-${o}`}
+                  aria-label={`End the code: ${OUTCOME_WORDS[o]}`}
+                  onClick={() => {
+                    onTap({ kind: 'end', outcome: o });
+                    setEnding(false);
+                  }}
+                />
+              ))}
+            </SimpleGrid>
+            <PadButton
+              label="Keep going"
+              height="compact"
+              data-testid="end-cancel"
+              aria-label="Do not end the code"
+              onClick={() => setEnding(false)}
+            />
+          </Stack>
+        ) : (
+          <PadButton
+            label="End code…"
+            detail="then choose the outcome"
+            disabled={disabled}
+            data-testid="event-end"
+            aria-label="End code"
+            onClick={() => setEnding(true)}
+          />
+        )}
+      </Stack>
+    </PadGroup>
+  );
+}

@@ -1,0 +1,73 @@
+import { Box, Button, Text, type ButtonProps } from '@chakra-ui/react';
+import type { ReactNode } from 'react';
+
+export interface PadButtonProps extends Omit<ButtonProps, 'children'> {
+  /** The main word, read first. */
+  label: ReactNode;
+  /** A second line: the dose, the energy, what the tap will record. */
+  detail?: ReactNode;
+  /** The protocol's suggestion or the next expected tap: drawn heavier, with a marker. */
+  emphasis?: boolean;
+  /** 80 px (default) or 64 px for dense grids. */
+  height?: 'tall' | 'compact';
+}
+
+/**
+ * The pad's one button: at least 64 px high, bold, full width of its cell, and a press state
+ * that shows under a gloved thumb. Emphasis uses weight and a border as well as colour.
+ */
+export function PadButton({
+  label,
+  detail,
+  emphasis = false,
+  height = 'tall',
+  variant,
+  colorPalette = 'ink',
+  ...rest
+}: PadButtonProps) {
+  return (
+    <Button
+      colorPalette={colorPalette}
+      variant={variant ?? (emphasis ? 'solid' : 'outline')}
+      minH={height === 'tall' ? '20' : '16'}
+      h="auto"
+      w="full"
+      px="3"
+      py="2"
+      whiteSpace="normal"
+      flexDirection="column"
+      alignItems="center"
+      justifyContent="center"
+      gap="0.5"
+      borderWidth={emphasis ? '3px' : '2px'}
+      borderColor={emphasis ? 'ink.950' : undefined}
+      borderRadius="l3"
+      bg={variant === undefined && !emphasis ? 'white' : undefined}
+      _active={{ transform: 'scale(0.97)' }}
+      transition="transform 80ms"
+      {...rest}
+    >
+      <Text
+        as="span"
+        textStyle={height === 'tall' ? 'xl' : 'lg'}
+        fontWeight="bold"
+        lineHeight="1.15"
+        textAlign="center"
+      >
+        {label}
+      </Text>
+      {detail ? (
+        <Box
+          as="span"
+          textStyle="sm"
+          fontWeight="bold"
+          lineHeight="1.2"
+          opacity={0.9}
+          textAlign="center"
+        >
+          {detail}
+        </Box>
+      ) : null}
+    </Button>
+  );
+}

@@ -1,0 +1,201 @@
+import { Badge, Box, Button, Flex, Heading, SimpleGrid, Stack, Text } from '@chakra-ui/react';
+import {
+  formatElapsedMs,
+  type EffectiveEntry,
+  type LogEntry,
+  type ProtocolSettings,
+} from '@steadyhand/shared';
+import dayjs from 'dayjs';
+import { useState } from 'react';
+import { describeEntry } from '../lib/entry-words';
+import { Shape } from './shapes';
+
+export const VOID_REASONS = [
+  'Tapped by mistake',
+  'Recorded twice',
+  'Wrong details or time',
+  'Belongs to another code',
+] as const;
+
+interface RecentEntriesProps {
+  entries: readonly EffectiveEntry[];
+  /** Every entry by id, corrections included (to know whether a correction is still waiting). */
+  all: readonly LogEntry[];
+  pendingIds: ReadonlySet<string>;
+  arrestAtMs: number;
+  protocol: ProtocolSettings | null;
+  count?: number;
+  /** Absent on a read-only screen. */
+  onVoid?: (entry: EffectiveEntry, reason: string) => void;
+}
+
+/** The newest entries first, each with its time since arrest and its clock time, and whether it has reached the server. */
+export function RecentEntries({
+  entries,
+  all,
+  pendingIds,
+  arrestAtMs,
+  protocol,
+  count = 8,
+  onVoid,
+}: RecentEntriesProps) {
+  const [voiding, setVoiding] = useState<string | null>(null);
+  const newest = entries.slice(-count).reverse();
+  const waitingCorrection = new Set<string>();
+  for (const e of all) {
+    if ((e.kind === 'void' || e.kind === 'amend') && pendingIds.has(e.id))
+      waitingCorrection.add(e.target);
+  }
+
+  return (
+    <Box as="section" aria-labelledby="recent-title" data-testid="recent-entries">
+      <Heading
+        as="h2"
+        id="recent-title"
+        textStyle="md"
+        textTransform="uppercase"
+        letterSpacing="wider"
+        color="ink.700"
+        mb="2"
+      >
+        Latest entries
+      </Heading>
+      {newest.length === 0 ? (
+        <Text color="ink.700" data-testid="recent-empty">
+          Nothing recorded yet. Each tap appears here at once.
+        </Text>
+      ) : (
+        <Stack as="ol" gap="1.5" listStyleType="none" m="0" p="0" aria-live="polite">
+          {newest.map((e) => {
+            const pending = pendingIds.has(e.id) || waitingCorrection.has(e.id);
+            const voided = e.voided !== null;
+            const atMs = Date.parse(e.at);
+            return (
+              <Box
+                as="li"
+                key={e.id}
+                data-testid="entry-row"
+                data-entry-id={e.id}
+                data-kind={e.kind}
+                data-pending={String(pending)}
+                data-voided={String(voided)}
+                bg={voided ? 'ink.50' : 'white'}
+                borderWidth="1px"
+                borderColor={pending ? 'signal.500' : 'ink.100'}
+                borderLeftWidth="6px"
+                borderLeftColor={pending ? 'signal.400' : voided ? 'ink.300' : 'seaglass.600'}
+                borderRadius="l2"
+                px="2"
+                py="1.5"
+              >
+                <Flex align="center" gap="2">
+                  <Stack gap="0" minW="4.5rem" flexShrink={0}>
+                    <Text
+                      textStyle="lg"
+                      fontWeight="bold"
+                      fontVariantNumeric="tabular-nums"
+                      lineHeight="1.1"
+                    >
+                      {formatElapsedMs(atMs - arrestAtMs)}
+                    </Text>
+                    <Text textStyle="xs" color="ink.700" fontVariantNumeric="tabular-nums">
+                      {dayjs(atMs).format('HH:mm:ss')}
+                    </Text>
+                  </Stack>
+                  <Box flex="1" minW="0">
+                    <Text
+                      textStyle="md"
+                      fontWeight="bold"
+                      lineHeight="1.2"
+                      textDecoration={voided ? 'line-through' : undefined}
+                      color={voided ? 'ink.500' : 'ink.950'}
+                      lineClamp={2}
+                    >
+                      {describeEntry(e, protocol)}
+                    </Text>
+                    <Flex gap="1.5" wrap="wrap" mt="0.5">
+                      {pending ? (
+                        <Badge
+                          colorPalette="orange"
+                          variant="solid"
+                          size="sm"
+                          data-testid="entry-pending"
+                        >
+                          <Shape kind="clock" size="1em" /> On this tablet, sending
+                        </Badge>
+                      ) : (
+                        <Badge colorPalette="green" variant="subtle" size="sm">
+                          <Shape kind="check" size="1em" /> Saved
+                        </Badge>
+                      )}
+                      {voided ? (
+                        <Badge colorPalette="gray" variant="outline" size="sm">
+                          Voided: {e.voided?.reason}
+                        </Badge>
+                      ) : null}
+                      {e.amendments.length > 0 ? (
+                        <Badge colorPalette="blue" variant="outline" size="sm">
+                          Corrected
+                        </Badge>
+                      ) : null}
+                    </Flex>
+                  </Box>
+                  {onVoid && !voided ? (
+                    <Button
+                      variant="outline"
+                      colorPalette="ink"
+                      bg="white"
+                      minH="16"
+                      minW="16"
+                      flexShrink={0}
+                      aria-expanded={voiding === e.id}
+                      aria-label={`Void "${describeEntry(e, protocol)}"`}
+                      data-testid="entry-void"
+                      onClick={() => setVoiding(voiding === e.id ? null : e.id)}
+                    >
+                      Void…
+                    </Button>
+                  ) : null}
+                </Flex>
+                {onVoid && voiding === e.id ? (
+                  <Box mt="2" role="group" aria-label="Why void this entry?">
+                    <Text textStyle="sm" fontWeight="bold" mb="1">
+                      Why void it? The entry stays in the record, struck through.
+                    </Text>
+                    <SimpleGrid columns={2} gap="1.5">
+                      {VOID_REASONS.map((reason) => (
+                        <Button
+                          key={reason}
+                          minH="16"
+                          h="auto"
+                          whiteSpace="normal"
+                          colorPalette="ink"
+                          data-testid="void-reason"
+                          onClick={() => {
+                            onVoid(e, reason);
+                            setVoiding(null);
+                          }}
+                        >
+                          {reason}
+                        </Button>
+                      ))}
+                      <Button
+                        minH="16"
+                        variant="outline"
+                        bg="white"
+                        gridColumn="span 2"
+                        onClick={() => setVoiding(null)}
+                      >
+                        Keep it
+                      </Button>
+                    </SimpleGrid>
+                  </Box>
+                ) : null}
+              </Box>
+            );
+          })}
+        </Stack>
+      )}
+    </Box>
+  );
+}

@@ -1,0 +1,488 @@
+import { Alert, Box, Button, Flex, Grid, Stack, Text } from '@chakra-ui/react';
+import {
+  computeDosing,
+  deriveLiveStateFromLive,
+  effectiveEntries,
+  formatElapsedMs,
+  nextShockJoules,
+  type Code,
+  type DosingSheet,
+  type EffectiveEntry,
+  type NewEntry,
+  type ProtocolSettings,
+} from '@steadyhand/shared';
+import { useCallback, useMemo, useState } from 'react';
+import type { EntryFields } from '../../../lib/live/entry-build';
+import type { LiveCode } from '../../../lib/live/use-live-code';
+import { describeEntry, OUTCOME_WORDS } from '../lib/entry-words';
+import { CodeDetails } from './code-details';
+import { CprGroup } from './cpr-group';
+import { DrugGroup, type DrugTapPlan } from './drug-group';
+import { DoseEditor, NoteEditor, NumberEditor } from './editor-panel';
+import { AccessGroup, AirwayGroup, Etco2Group, EventGroup } from './more-groups';
+import { RecentEntries } from './recent-entries';
+import { RhythmGroup } from './rhythm-group';
+import { Shape } from './shapes';
+import { ShockGroup } from './shock-group';
+import { StatusStrip } from './status-strip';
+import { UNDO_WINDOW_MS, UndoBar, type LastTap } from './undo-bar';
+
+export const REMINDER_CAUTION =
+  "Reminders support, and do not replace, the team leader's judgment, local protocol and licensed practice.";
+export const UNDO_REASON = 'undone on the pad within 5 s';
+export const AMEND_REASON = 'dose corrected after tap';
+const DOSE_EDIT_WINDOW_MS = 30_000;
+const OTHER_DRUG = 'Other drug (name to complete)';
+
+type Editor =
+  | { kind: 'amend-dose'; entry: Extract<NewEntry, { kind: 'drug' }> }
+  | { kind: 'new-dose'; plan: DrugTapPlan }
+  | { kind: 'other-drug' }
+  | { kind: 'energy' }
+  | { kind: 'etco2' }
+  | { kind: 'note' };
+
+function safeDosing(code: Code, protocol: ProtocolSettings): DosingSheet | null {
+  try {
+    return computeDosing({ category: code.category, weightKg: code.weightKg }, protocol);
+  } catch {
+    return null;
+  }
+}
+
+interface RecorderPadProps {
+  live: LiveCode;
+  code: Code;
+  protocol: ProtocolSettings;
+  canWrite: boolean;
+  /** Why this person sees the code read-only. */
+  readOnlyReason?: string;
+}
+
+/**
+ * The recorder pad: the strip of clocks on top, the bedside jobs as big buttons, the latest
+ * entries beside (landscape) or below (portrait). Every tap records at once; Undo follows.
+ */
+export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: RecorderPadProps) {
+  const [lastTap, setLastTap] = useState<LastTap | null>(null);
+  const [editor, setEditor] = useState<Editor | null>(null);
+  const [tapError, setTapError] = useState<string | null>(null);
+  const [synchronized, setSynchronized] = useState(false);
+  const { record, entries, pendingIds, clock } = live;
+
+  // Redone only when the log changes; the strip's per-second tick reuses it.
+  const effective = useMemo(() => effectiveEntries(entries), [entries]);
+  const counting = useMemo(() => effective.filter((e) => e.voided === null), [effective]);
+  const sheet = useMemo(() => safeDosing(code, protocol), [code, protocol]);
+  const snapshot = useMemo(
+    () =>
+      deriveLiveStateFromLive({
+        code,
+        settings: protocol,
+        nowMs: Date.parse(code.arrestAt),
+        liveEntries: counting,
+      }),
+    [code, protocol, counting],
+  );
+  const arrestAtMs = Date.parse(code.arrestAt);
+  const pediatric = code.category === 'pediatric';
+
+  const tap = useCallback(
+    (fields: EntryFields) => {
+      if (!canWrite) return;
+      record(fields)
+        .then((entry) => {
+          setTapError(null);
+          if (entry.kind === 'void' || entry.kind === 'amend') return;
+          const now = Date.now();
+          setLastTap({
+            entry,
+            undoUntil: now + UNDO_WINDOW_MS,
+            editUntil: now + DOSE_EDIT_WINDOW_MS,
+          });
+        })
+        .catch((err: unknown) => {
+          setTapError(err instanceof Error ? err.message : String(err));
+        });
+    },
+    [canWrite, record],
+  );
+
+  const undo = () => {
+    if (!lastTap || Date.now() > lastTap.undoUntil) return;
+    tap({ kind: 'void', target: lastTap.entry.id, reason: UNDO_REASON });
+    setLastTap(null);
+  };
+
+  const voidEntry = (entry: EffectiveEntry, reason: string) =>
+    tap({ kind: 'void', target: entry.id, reason });
+
+  const onDrug = (plan: DrugTapPlan) => {
+    if (!plan.dose) {
+      setEditor({ kind: 'new-dose', plan });
+      return;
+    }
+    tap({
+      kind: 'drug',
+      drug: plan.drug.key,
+      dose: plan.dose.amount,
+      unit: plan.dose.unit,
+      route: plan.drug.route,
+    });
+  };
+
+  const givenCount = (key: string) =>
+    snapshot.drugTotals.find((d) => d.key === key)?.doseCount ?? 0;
+  const nextPedStep = sheet
+    ? nextShockJoules(
+        sheet,
+        snapshot.shocks.count,
+        synchronized ? 'cardioversion' : 'defibrillation',
+      )
+    : null;
+  const noWrite = !canWrite;
+  const failedById = new Map(entries.map((e) => [e.id, e]));
+
+  return (
+    <Stack gap="3" pb={{ base: '24', lg: '4' }} data-testid="recorder-pad" data-code-id={code.id}>
+      <Flex align="baseline" justify="space-between" wrap="wrap" gap="2">
+        <Text as="h1" textStyle="xl" fontWeight="bold" data-testid="record-heading">
+          {pediatric ? 'Pediatric' : 'Adult'} code · {code.location ?? 'location not set'}
+          {code.weightKg !== null ? ` · ${code.weightKg} kg` : ''}
+        </Text>
+        <Text textStyle="sm" color="ink.700">
+          Clock offset {Math.round(clock.offsetMs)} ms
+          {clock.uncertaintyMs !== null
+            ? ` ± ${Math.round(clock.uncertaintyMs)} ms`
+            : ' (not yet measured)'}
+        </Text>
+      </Flex>
+
+      <StatusStrip
+        code={code}
+        protocol={protocol}
+        live={counting}
+        sync={live.sync}
+        correctedNow={clock.correctedNow}
+      />
+
+      {live.sync.alarm ? (
+        <Alert.Root
+          status="error"
+          variant="solid"
+          role="alert"
+          borderRadius="l3"
+          data-testid="sync-alarm"
+        >
+          <Shape kind="octagon" size="2em" />
+          <Alert.Content>
+            <Alert.Title textStyle="xl" fontWeight="bold">
+              {live.sync.waiting} {live.sync.waiting === 1 ? 'entry has' : 'entries have'} waited
+              over a minute for the server
+            </Alert.Title>
+            <Alert.Description textStyle="md">
+              Keep recording: every tap is kept on this tablet. Check the Wi-Fi; do not sign out or
+              clear this browser.
+            </Alert.Description>
+          </Alert.Content>
+        </Alert.Root>
+      ) : null}
+
+      {live.failed.length > 0 ? (
+        <Alert.Root status="error" role="alert" borderRadius="l3" data-testid="sync-failed">
+          <Shape kind="cross" size="2em" />
+          <Alert.Content>
+            <Alert.Title textStyle="lg" fontWeight="bold">
+              The server refused{' '}
+              {live.failed.length === 1 ? 'one entry' : `${live.failed.length} entries`}: not in the
+              record yet
+            </Alert.Title>
+            <Stack gap="1" mt="1">
+              {live.failed.map((f) => (
+                <Flex key={f.id} align="center" gap="2" wrap="wrap">
+                  <Text textStyle="md" fontWeight="bold">
+                    {describeEntry(f.entry, protocol, failedById)}
+                  </Text>
+                  <Text textStyle="sm">({f.error})</Text>
+                  <Button
+                    size="sm"
+                    variant="outline"
+                    bg="white"
+                    onClick={() => void live.retryFailed(f.id)}
+                  >
+                    Send again
+                  </Button>
+                </Flex>
+              ))}
+            </Stack>
+          </Alert.Content>
+        </Alert.Root>
+      ) : null}
+
+      {tapError ? (
+        <Alert.Root status="error" role="alert" borderRadius="l3">
+          <Alert.Indicator />
+          <Alert.Content>
+            <Alert.Title fontWeight="bold">That tap was NOT saved on this tablet</Alert.Title>
+            <Alert.Description>
+              {tapError} Write it on paper and tell the team leader.
+            </Alert.Description>
+          </Alert.Content>
+        </Alert.Root>
+      ) : null}
+
+      {snapshot.status === 'ended' ? (
+        <Box bg="ink.100" borderRadius="l3" px="3" py="2" data-testid="ended-banner">
+          <Text textStyle="lg" fontWeight="bold">
+            Code ended at {formatElapsedMs((snapshot.endedAtMs ?? arrestAtMs) - arrestAtMs)}
+            {snapshot.outcome ? `: ${OUTCOME_WORDS[snapshot.outcome]}` : ''}. Late entries can still
+            be added.
+          </Text>
+        </Box>
+      ) : null}
+
+      {noWrite ? (
+        <Box
+          bg="seaglass.50"
+          borderWidth="2px"
+          borderColor="seaglass.600"
+          borderRadius="l3"
+          px="3"
+          py="2"
+          data-testid="read-only-notice"
+        >
+          <Text textStyle="lg" fontWeight="bold">
+            Watching this code
+          </Text>
+          <Text>
+            {readOnlyReason ?? 'Only a recorder or a team leader can add entries.'} Each entry
+            appears here as it is recorded.
+          </Text>
+        </Box>
+      ) : null}
+
+      <Grid
+        templateColumns={{
+          base: 'minmax(0, 1fr)',
+          lg: noWrite ? 'minmax(0, 1fr)' : 'minmax(0, 1fr) 23rem',
+        }}
+        gap="3"
+        alignItems="start"
+      >
+        {noWrite ? null : (
+          <Stack gap="3" minW="0">
+            <Grid
+              templateColumns={{
+                base: 'minmax(0, 1fr)',
+                sm: 'repeat(2, minmax(0, 1fr))',
+                lg: 'repeat(3, minmax(0, 1fr))',
+              }}
+              gap="3"
+            >
+              <CprGroup running={snapshot.compressions.running} onTap={tap} disabled={noWrite} />
+              <RhythmGroup onTap={tap} disabled={noWrite} />
+              <ShockGroup
+                onTap={tap}
+                onOtherEnergy={() => setEditor({ kind: 'energy' })}
+                synchronized={synchronized}
+                onSynchronized={setSynchronized}
+                disabled={noWrite}
+                pediatric={pediatric}
+                sheet={sheet}
+                presets={protocol.shockPresetsJoules}
+                defaultJoules={protocol.defaultShockJoules}
+                nextStep={nextPedStep}
+              />
+            </Grid>
+            <DrugGroup
+              protocol={protocol}
+              sheet={sheet}
+              givenCount={givenCount}
+              pediatric={pediatric}
+              disabled={noWrite}
+              onDrug={onDrug}
+              onOtherDrug={() => setEditor({ kind: 'other-drug' })}
+            />
+            <Grid
+              templateColumns={{
+                base: 'minmax(0, 1fr)',
+                sm: 'repeat(2, minmax(0, 1fr))',
+                lg: 'repeat(4, minmax(0, 1fr))',
+              }}
+              gap="3"
+            >
+              <EventGroup
+                onTap={tap}
+                onNote={() => setEditor({ kind: 'note' })}
+                disabled={noWrite}
+              />
+              <AirwayGroup onTap={tap} disabled={noWrite} />
+              <AccessGroup onTap={tap} disabled={noWrite} />
+              <Etco2Group
+                onTap={tap}
+                onOther={() => setEditor({ kind: 'etco2' })}
+                disabled={noWrite}
+              />
+            </Grid>
+            <CodeDetails code={code} canWrite={canWrite} onSaved={live.setCode} />
+          </Stack>
+        )}
+
+        <Stack
+          gap="3"
+          minW="0"
+          position={{ base: 'static', lg: 'sticky' }}
+          top={{ lg: '7rem' }}
+          maxH={{ lg: 'calc(100dvh - 7.5rem)' }}
+          overflowY={{ lg: 'auto' }}
+        >
+          {noWrite ? null : (
+            // On a phone or a portrait tablet the list sits below the buttons, so Undo floats at the bottom edge.
+            <Box
+              position={{ base: 'fixed', lg: 'static' }}
+              bottom={{ base: '0', lg: 'auto' }}
+              left={{ base: '0', lg: 'auto' }}
+              right={{ base: '0', lg: 'auto' }}
+              zIndex={{ base: 'docked', lg: 'auto' }}
+              p={{ base: '2', lg: '0' }}
+            >
+              <UndoBar
+                tap={lastTap}
+                protocol={protocol}
+                onUndo={undo}
+                onChangeDose={
+                  lastTap?.entry.kind === 'drug'
+                    ? () =>
+                        lastTap.entry.kind === 'drug' &&
+                        setEditor({ kind: 'amend-dose', entry: lastTap.entry })
+                    : undefined
+                }
+              />
+            </Box>
+          )}
+          <RecentEntries
+            entries={effective}
+            all={entries}
+            pendingIds={pendingIds}
+            arrestAtMs={arrestAtMs}
+            protocol={protocol}
+            count={noWrite ? 20 : 8}
+            onVoid={noWrite ? undefined : voidEntry}
+          />
+          <Box borderTopWidth="1px" borderColor="ink.200" pt="2" data-testid="reminder-caution">
+            <Text textStyle="sm" fontWeight="bold">
+              {REMINDER_CAUTION}
+            </Text>
+            <Text textStyle="xs" color="ink.700">
+              Protocol: {protocol.edition}. Times shown are when each event happened, as tapped.
+            </Text>
+          </Box>
+        </Stack>
+      </Grid>
+
+      {editor?.kind === 'amend-dose' ? (
+        <DoseEditor
+          title={`Change ${describeEntry(editor.entry, protocol)}`}
+          initialDose={editor.entry.dose}
+          initialRoute={editor.entry.route}
+          unit={editor.entry.unit}
+          saveLabel="Save correction"
+          note={
+            <Text textStyle="sm">
+              The original tap stays in the record; this adds a correction ({AMEND_REASON}).
+            </Text>
+          }
+          onCancel={() => setEditor(null)}
+          onSave={(dose, route) => {
+            const target = editor.entry;
+            const changes: Record<string, unknown> = {};
+            if (dose !== target.dose) changes.dose = dose;
+            if (route !== target.route) changes.route = route;
+            if (Object.keys(changes).length > 0)
+              tap({ kind: 'amend', target: target.id, changes, reason: AMEND_REASON });
+            setEditor(null);
+            setLastTap(null);
+          }}
+        />
+      ) : null}
+      {editor?.kind === 'new-dose' ? (
+        <DoseEditor
+          title={`${editor.plan.drug.label}: dose`}
+          initialDose={null}
+          initialRoute={editor.plan.drug.route}
+          unit={editor.plan.drug.unit}
+          saveLabel="Record dose"
+          note={
+            pediatric ? (
+              <Text fontWeight="bold">
+                Double-check every weight-based dose with a second person.
+              </Text>
+            ) : undefined
+          }
+          onCancel={() => setEditor(null)}
+          onSave={(dose, route, unit) => {
+            tap({ kind: 'drug', drug: editor.plan.drug.key, dose, unit, route });
+            setEditor(null);
+          }}
+        />
+      ) : null}
+      {editor?.kind === 'other-drug' ? (
+        <DoseEditor
+          title="Other drug: dose"
+          initialDose={null}
+          initialRoute="iv"
+          unit="mg"
+          chooseUnit
+          saveLabel="Record dose"
+          note={
+            <Text textStyle="sm">
+              The drug&apos;s name is completed at review, so no typing is needed now.
+            </Text>
+          }
+          onCancel={() => setEditor(null)}
+          onSave={(dose, route, unit) => {
+            tap({ kind: 'drug', drug: OTHER_DRUG, dose, unit, route });
+            setEditor(null);
+          }}
+        />
+      ) : null}
+      {editor?.kind === 'energy' ? (
+        <NumberEditor
+          title={synchronized ? 'Synchronised shock: energy' : 'Shock: energy'}
+          unit="J"
+          min={1}
+          max={400}
+          saveLabel={synchronized ? 'Record synchronised shock' : 'Record shock'}
+          onCancel={() => setEditor(null)}
+          onSave={(joules) => {
+            tap({ kind: 'shock', joules, synchronized });
+            setEditor(null);
+          }}
+        />
+      ) : null}
+      {editor?.kind === 'etco2' ? (
+        <NumberEditor
+          title="ETCO2"
+          unit="mmHg"
+          min={0}
+          max={200}
+          saveLabel="Record ETCO2"
+          onCancel={() => setEditor(null)}
+          onSave={(mmHg) => {
+            tap({ kind: 'etco2', mmHg });
+            setEditor(null);
+          }}
+        />
+      ) : null}
+      {editor?.kind === 'note' ? (
+        <NoteEditor
+          onCancel={() => setEditor(null)}
+          onSave={(text) => {
+            tap({ kind: 'note', text });
+            setEditor(null);
+          }}
+        />
+      ) : null}
+    </Stack>
+  );
+}

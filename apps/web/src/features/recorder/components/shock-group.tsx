@@ -1,0 +1,160 @@
+import { Box, Button, SimpleGrid, Stack, Text } from '@chakra-ui/react';
+import type { DosingSheet, EnergyStep } from '@steadyhand/shared';
+import { PadButton } from './pad-button';
+import { PadGroup } from './pad-group';
+import { Shape } from './shapes';
+import type { Tap } from './types';
+
+interface ShockGroupProps {
+  onTap: Tap;
+  onOtherEnergy: () => void;
+  synchronized: boolean;
+  onSynchronized: (on: boolean) => void;
+  disabled: boolean;
+  pediatric: boolean;
+  sheet: DosingSheet | null;
+  presets: number[];
+  defaultJoules: number;
+  /** Pediatric: the weight-based step for the next shock. */
+  nextStep: EnergyStep | null;
+}
+
+/**
+ * Energies to record, never settings for the device. The synchronised switch is a full-width
+ * bar that changes shape, words and colour, because mixing the two modes up is dangerous.
+ */
+export function ShockGroup({
+  onTap,
+  onOtherEnergy,
+  synchronized,
+  onSynchronized,
+  disabled,
+  pediatric,
+  sheet,
+  presets,
+  defaultJoules,
+  nextStep,
+}: ShockGroupProps) {
+  const pedSteps =
+    pediatric && sheet?.status === 'ready'
+      ? synchronized
+        ? sheet.cardioversion.steps
+        : sheet.defibrillation.steps
+      : [];
+  return (
+    <PadGroup title="Shock" id="shock" accent="signal.500">
+      <Stack gap="2">
+        <Button
+          role="switch"
+          aria-checked={synchronized}
+          aria-label="Synchronised shock"
+          data-testid="shock-sync"
+          minH="16"
+          h="auto"
+          w="full"
+          variant="solid"
+          bg={synchronized ? 'signal.300' : 'ink.100'}
+          color="ink.950"
+          borderWidth="3px"
+          borderStyle={synchronized ? 'solid' : 'dashed'}
+          borderColor="ink.900"
+          textStyle="lg"
+          disabled={disabled}
+          onClick={() => onSynchronized(!synchronized)}
+        >
+          <Shape kind={synchronized ? 'triangle' : 'ring'} size="1.4em" />
+          {synchronized ? 'SYNCHRONISED: ON' : 'Synchronised: off'}
+        </Button>
+        {pediatric ? (
+          pedSteps.length > 0 ? (
+            <SimpleGrid columns={1} gap="2">
+              {pedSteps.map((step) => {
+                const isNext = nextStep !== null && step.shockNumber === nextStep.shockNumber;
+                return (
+                  <PadButton
+                    key={`${step.shockNumber}-${step.synchronized}`}
+                    // Records the low end of a range; another energy goes through Other energy.
+                    label={`${synchronized ? 'Sync ' : ''}${Math.round(step.joules)} J`}
+                    detail={
+                      <>
+                        <Box>{`${step.repeats ? `Shock ${step.shockNumber}+` : `Shock ${step.shockNumber}`}${isNext ? ' · next' : ''}${step.joulesHigh !== null ? ` · range ${step.display}` : ''}`}</Box>
+                        <Box fontWeight="normal">
+                          {step.formula}
+                          {step.capNote ? ` (${step.capNote})` : ''}
+                        </Box>
+                      </>
+                    }
+                    emphasis={isNext}
+                    colorPalette="ink"
+                    disabled={disabled}
+                    data-testid={`shock-${Math.round(step.joules)}`}
+                    aria-label={`${synchronized ? 'Synchronised shock' : 'Shock'} ${Math.round(step.joules)} joules`}
+                    onClick={() =>
+                      onTap({ kind: 'shock', joules: Math.round(step.joules), synchronized })
+                    }
+                  />
+                );
+              })}
+            </SimpleGrid>
+          ) : (
+            <Text
+              textStyle="md"
+              fontWeight="bold"
+              color="alarm.700"
+              data-testid="shock-weight-needed"
+            >
+              Weight needed for pediatric energies. Use Other energy, or set the weight below.
+            </Text>
+          )
+        ) : (
+          <SimpleGrid columns={2} gap="2">
+            {presets.map((j) => (
+              <PadButton
+                key={j}
+                label={`${j} J`}
+                detail={
+                  j === defaultJoules
+                    ? synchronized
+                      ? 'default · SYNC'
+                      : 'default'
+                    : synchronized
+                      ? 'SYNC'
+                      : undefined
+                }
+                emphasis={j === defaultJoules}
+                height="compact"
+                colorPalette="ink"
+                disabled={disabled}
+                data-testid={`shock-${j}`}
+                aria-label={`${synchronized ? 'Synchronised shock' : 'Shock'} ${j} joules`}
+                onClick={() => onTap({ kind: 'shock', joules: j, synchronized })}
+              />
+            ))}
+            <PadButton
+              label="Other J"
+              height="compact"
+              disabled={disabled}
+              data-testid="shock-other"
+              aria-label="Shock at another energy"
+              onClick={onOtherEnergy}
+            />
+          </SimpleGrid>
+        )}
+        {pediatric ? (
+          <PadButton
+            label="Other energy"
+            height="compact"
+            disabled={disabled}
+            data-testid="shock-other"
+            aria-label="Shock at another energy"
+            onClick={onOtherEnergy}
+          />
+        ) : null}
+        <Text textStyle="xs" color="ink.700">
+          Records the shock given. Use the defibrillator maker&apos;s energy; this does not set the
+          device.
+        </Text>
+      </Stack>
+    </PadGroup>
+  );
+}

@@ -1,0 +1,193 @@
+import type { Code, NewEntry, ProtocolSettings, StoredEntry } from '@steadyhand/shared';
+import { buildEntry, type EntryFields, type EntryStamp } from './entry-build';
+import { readTx, requestResult, STORES, writeTx } from './idb';
+
+/**
+ * The device's outbox: every tap lands here first (strict durability) and leaves only when the
+ * server has acknowledged it after its commit. Also keeps the device's identity and sequence
+ * counter, and the last known log of each code so a reload shows it at once, offline too.
+ */
+
+export interface OutboxRecord {
+  id: string;
+  codeId: string;
+  seq: number;
+  /** Device wall clock when the tap was written here (for the 60 s alarm). */
+  createdAt: number;
+  entry: NewEntry;
+  /** 'failed': the server refused it (4xx); it stays here and on screen until someone acts. */
+  status: 'pending' | 'failed';
+  error?: string;
+  errorStatus?: number;
+}
+
+export interface DeviceIdentity {
+  key: 'identity';
+  deviceId: string;
+  nextSeq: number;
+}
+
+/**
+ * The sequence number for the next tap and the identity to store back: a device id is made
+ * once, on the first tap, and the counter only ever goes up.
+ */
+export function takeSeq(
+  found: DeviceIdentity | undefined,
+  makeId: () => string,
+): { deviceId: string; seq: number; next: DeviceIdentity } {
+  const identity: DeviceIdentity = found ?? { key: 'identity', deviceId: makeId(), nextSeq: 1 };
+  return {
+    deviceId: identity.deviceId,
+    seq: identity.nextSeq,
+    next: { ...identity, nextSeq: identity.nextSeq + 1 },
+  };
+}
+
+export interface LogCacheRecord {
+  codeId: string;
+  code: Code | null;
+  entries: StoredEntry[];
+  cursor: number;
+  savedAt: number;
+}
+
+interface ProtocolCacheRecord {
+  key: 'protocol';
+  protocol: ProtocolSettings;
+}
+
+/** Tells this tab and others that the outbox changed. */
+const CHANNEL = 'steadyhand-outbox';
+const localEvents = new EventTarget();
+let channel: BroadcastChannel | null = null;
+function getChannel(): BroadcastChannel | null {
+  if (channel === null && typeof BroadcastChannel !== 'undefined') {
+    channel = new BroadcastChannel(CHANNEL);
+    channel.onmessage = () => localEvents.dispatchEvent(new Event('change'));
+  }
+  return channel;
+}
+
+function announceChange(): void {
+  localEvents.dispatchEvent(new Event('change'));
+  getChannel()?.postMessage('change');
+}
+
+export function onOutboxChange(listener: () => void): () => void {
+  getChannel();
+  localEvents.addEventListener('change', listener);
+  return () => localEvents.removeEventListener('change', listener);
+}
+
+export type StampWithoutIdentity = Omit<EntryStamp, 'deviceId' | 'seq'>;
+
+/**
+ * Writes a tap to the outbox. The device id and the next sequence number are read and advanced
+ * in the same transaction as the outbox write, so two tabs never share a number. Resolves with
+ * the stored entry once the transaction is complete: only then is the tap "saved on this device".
+ */
+export async function addToOutbox(
+  codeId: string,
+  fields: EntryFields,
+  stamp: StampWithoutIdentity,
+): Promise<OutboxRecord> {
+  const record = await writeTx([STORES.device, STORES.outbox], async (tx) => {
+    const device = tx.objectStore(STORES.device);
+    const found = (await requestResult(device.get('identity'))) as DeviceIdentity | undefined;
+    const { deviceId, seq, next } = takeSeq(found, () => crypto.randomUUID());
+    const entry = buildEntry(fields, { ...stamp, deviceId, seq });
+    const rec: OutboxRecord = {
+      id: entry.id,
+      codeId,
+      seq,
+      createdAt: Date.now(),
+      entry,
+      status: 'pending',
+    };
+    device.put(next);
+    tx.objectStore(STORES.outbox).add(rec);
+    return rec;
+  });
+  announceChange();
+  return record;
+}
+
+/** Every outbox record of this device, in sequence order. */
+export async function readOutbox(): Promise<OutboxRecord[]> {
+  return readTx([STORES.outbox], (tx) =>
+    requestResult(
+      tx.objectStore(STORES.outbox).index('by-seq').getAll() as IDBRequest<OutboxRecord[]>,
+    ),
+  );
+}
+
+export async function countOutbox(): Promise<number> {
+  return readTx([STORES.outbox], (tx) => requestResult(tx.objectStore(STORES.outbox).count()));
+}
+
+/** Removes an entry after the server acknowledged it (stored, or stored before). */
+export async function removeFromOutbox(id: string): Promise<void> {
+  await writeTx([STORES.outbox], (tx) => {
+    tx.objectStore(STORES.outbox).delete(id);
+  });
+  announceChange();
+}
+
+export async function markOutboxFailed(
+  id: string,
+  error: string,
+  errorStatus: number,
+): Promise<void> {
+  await writeTx([STORES.outbox], async (tx) => {
+    const store = tx.objectStore(STORES.outbox);
+    const rec = (await requestResult(store.get(id))) as OutboxRecord | undefined;
+    if (rec) store.put({ ...rec, status: 'failed', error, errorStatus } satisfies OutboxRecord);
+  });
+  announceChange();
+}
+
+/** Puts a refused entry back in line, for example after the code's details were fixed. */
+export async function retryFailed(id: string): Promise<void> {
+  await writeTx([STORES.outbox], async (tx) => {
+    const store = tx.objectStore(STORES.outbox);
+    const rec = (await requestResult(store.get(id))) as OutboxRecord | undefined;
+    if (rec)
+      store.put({
+        id: rec.id,
+        codeId: rec.codeId,
+        seq: rec.seq,
+        createdAt: Date.now(),
+        entry: rec.entry,
+        status: 'pending',
+      } satisfies OutboxRecord);
+  });
+  announceChange();
+}
+
+export async function readLogCache(codeId: string): Promise<LogCacheRecord | null> {
+  return readTx([STORES.logCache], async (tx) => {
+    const rec = (await requestResult(tx.objectStore(STORES.logCache).get(codeId))) as
+      LogCacheRecord | undefined;
+    return rec ?? null;
+  });
+}
+
+export async function writeLogCache(record: LogCacheRecord): Promise<void> {
+  await writeTx([STORES.logCache], (tx) => {
+    tx.objectStore(STORES.logCache).put(record);
+  });
+}
+
+export async function readCachedProtocol(): Promise<ProtocolSettings | null> {
+  return readTx([STORES.device], async (tx) => {
+    const rec = (await requestResult(tx.objectStore(STORES.device).get('protocol'))) as
+      ProtocolCacheRecord | undefined;
+    return rec?.protocol ?? null;
+  });
+}
+
+export async function writeCachedProtocol(protocol: ProtocolSettings): Promise<void> {
+  await writeTx([STORES.device], (tx) => {
+    tx.objectStore(STORES.device).put({ key: 'protocol', protocol } satisfies ProtocolCacheRecord);
+  });
+}
