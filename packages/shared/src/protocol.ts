@@ -59,8 +59,34 @@ export const protocolSettingsSchema = z.object({
     cardioversionNextJoulesPerKg: z.number().positive(),
   }),
   drugs: z.array(drugDefinitionSchema).min(1),
-});
+})
+  // Checks across fields, so the server and the admin form refuse the same settings.
+  .superRefine((p, ctx) => {
+    if (!p.shockPresetsJoules.includes(p.defaultShockJoules)) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['defaultShockJoules'],
+        message: `the default energy (${String(p.defaultShockJoules)} J) must be one of the shock presets (${p.shockPresetsJoules.join(', ')} J)`,
+      });
+    }
+    const seen = new Set<string>();
+    p.drugs.forEach((drug, index) => {
+      if (seen.has(drug.key)) {
+        ctx.addIssue({ code: 'custom', path: ['drugs', index, 'key'], message: `duplicate drug key "${drug.key}": each drug needs its own key` });
+      }
+      seen.add(drug.key);
+    });
+  });
 export type ProtocolSettings = z.infer<typeof protocolSettingsSchema>;
+
+/** GET /api/protocol and the answers of the admin's changes: the settings and who last saved them. */
+export interface ProtocolDocument {
+  protocol: ProtocolSettings;
+  /** When an admin last saved; null while the published defaults have never been changed. */
+  updatedAt: string | null;
+  /** Display name of that admin. */
+  updatedBy: string | null;
+}
 
 const AHA_ADULT = 'AHA 2020 Adult Cardiac Arrest Algorithm';
 const PALS_TABLE = 'AHA PALS Medications for Pediatric Resuscitation table (2010 Table 1 / 2015 ECC Handbook)';
