@@ -13,6 +13,6 @@ import { LiveGateway } from './live.gateway.js';
   imports: [AuthModule, UsersModule, ProtocolModule],
   controllers: [CodesController],
   providers: [CodesRepository, CodesService, EntriesService, EntryEvents, LiveGateway],
-  exports: [CodesService, EntriesService, LiveGateway],
+  exports: [CodesService, CodesRepository, EntriesService, EntryEvents, LiveGateway],
 })
 export class CodesModule {}

@@ -3,7 +3,7 @@ import type { Code, CodeStatus, NewEntry, Outcome, StoredEntry } from '@steadyha
 import { and, asc, desc, eq, gt } from 'drizzle-orm';
 import { DB } from '../db/database.module.js';
 import type { Db } from '../db/database.js';
-import { codes, entries } from '../db/schema/index.js';
+import { codes, entries, signatures } from '../db/schema/index.js';
 
 type CodeRow = typeof codes.$inferSelect;
 type EntryRow = typeof entries.$inferSelect;
@@ -56,8 +56,24 @@ export class CodesRepository {
     return rows.map(toCode);
   }
 
-  updateCode(id: string, changes: Partial<Pick<CodeRow, 'status' | 'endedAt' | 'outcome' | 'location' | 'unitId' | 'patient' | 'weightKg' | 'category'>>): Code {
+  updateCode(
+    id: string,
+    changes: Partial<Pick<CodeRow, 'status' | 'endedAt' | 'outcome' | 'location' | 'unitId' | 'patient' | 'weightKg' | 'category' | 'team' | 'debriefNotes'>>,
+  ): Code {
     return toCode(this.db.update(codes).set(changes).where(eq(codes.id, id)).returning().get());
+  }
+
+  /** Review details kept beside the code (not part of the live `Code` shape). */
+  reviewDetails(id: string): { team: { name: string; role: string }[] | null; debriefNotes: string | null } | undefined {
+    return this.db.select({ team: codes.team, debriefNotes: codes.debriefNotes }).from(codes).where(eq(codes.id, id)).get();
+  }
+
+  /**
+   * Whether the record carries a signature. Read here rather than through the records module,
+   * which depends on this one (no module cycle).
+   */
+  isSigned(codeId: string): boolean {
+    return this.db.select({ id: signatures.id }).from(signatures).where(eq(signatures.codeId, codeId)).limit(1).get() !== undefined;
   }
 
   findEntry(id: string): StoredEntry | undefined {

@@ -69,6 +69,8 @@ export class CodesService {
 
   update(user: SessionUser, id: string, changes: UpdateCodeRequest): Code {
     const before = this.get(id);
+    // The signed details are part of the signed record: later changes go in as addenda.
+    if (this.repo.isSigned(id)) throw new ConflictException('This record is signed: add an addendum');
     const after = this.repo.updateCode(id, changes);
     const changed = Object.fromEntries(
       Object.keys(changes).map((k) => [k, { from: before[k as keyof Code] ?? null, to: after[k as keyof Code] ?? null }]),

@@ -23,37 +23,83 @@ export class EntriesService {
     @Inject(AuditService) private readonly audit: AuditService,
   ) {}
 
-  add(user: SessionUser, codeId: string, entry: NewEntry, receivedAt = new Date().toISOString()): AddEntryResult {
+  /**
+   * `addendum`: the entry is added to a signed record after the fact. Plain entries are refused
+   * once the record carries a signature, and addenda before it, so the signed log only grows by
+   * entries marked as added later.
+   */
+  add(
+    user: SessionUser,
+    codeId: string,
+    entry: NewEntry,
+    receivedAt = new Date().toISOString(),
+    options: { addendum?: boolean } = {},
+  ): AddEntryResult {
+    const addendum = options.addendum ?? false;
     if (!hasAnyRole(user.roles, WRITER_ROLES)) {
       throw new ForbiddenException('Only a recorder or a team leader can add entries');
     }
     const code = this.repo.findCode(codeId);
     if (!code) throw new NotFoundException(`No code with id ${codeId}`);
 
+    // A resend of a tap stored earlier gets its stored row back, signed record or not, so an
+    // outbox never loops on an entry that did land.
     const earlier = this.repo.findEntry(entry.id);
     if (earlier) {
       if (earlier.codeId !== codeId) throw new ConflictException(`Entry ${entry.id} belongs to another code`);
       return { entry: earlier, duplicate: true };
     }
+    const signed = this.repo.isSigned(codeId);
+    if (signed && !addendum) throw new ConflictException('This record is signed: add an addendum');
+    if (!signed && addendum) throw new ConflictException('This record is not signed yet: add a plain entry, not an addendum');
     if (entry.kind === 'void' || entry.kind === 'amend') this.checkCorrection(codeId, entry);
+    const target = entry.kind === 'void' || entry.kind === 'amend' ? this.repo.findEntry(entry.target) : undefined;
+    // The signed code row (status, end time, outcome) stays as signed; the log shows the addendum.
+    if (addendum && entry.kind === 'void' && target?.kind === 'end') {
+      throw new ConflictException('A signed record stays ended: amend the end entry or add a note instead of voiding it');
+    }
 
-    const result = this.repo.appendEntry(entry, { codeId, userId: user.id, receivedAt, addendum: false }, (stored) => {
-      if (this.touchesEnd(stored)) this.syncCodeStatus(codeId);
+    const result = this.repo.appendEntry(entry, { codeId, userId: user.id, receivedAt, addendum }, (stored) => {
+      if (!addendum && this.touchesEnd(stored)) this.syncCodeStatus(codeId);
     });
     if (!result.duplicate) {
-      if (entry.kind === 'void' || entry.kind === 'amend') {
-        this.audit.record({
-          action: entry.kind === 'void' ? 'entry.voided' : 'entry.amended',
-          userId: user.id,
-          username: user.username,
-          codeId,
-          detail: { entryId: entry.id, target: entry.target, reason: entry.reason, ...(entry.kind === 'amend' ? { changes: entry.changes } : {}) },
-        });
-      }
+      this.auditEntry(user, codeId, entry, target, addendum);
       this.events.emitAdded({ codeId, entry: result.entry, cursor: result.entry.cursor });
-      if (this.touchesEnd(result.entry)) this.events.emitCodesChanged(codeId);
+      if (!addendum && this.touchesEnd(result.entry)) this.events.emitCodesChanged(codeId);
     }
     return result;
+  }
+
+  /** Corrections and addenda go to the audit trail with who, the old and new values and the reason. */
+  private auditEntry(user: SessionUser, codeId: string, entry: NewEntry, target: StoredEntry | undefined, addendum: boolean): void {
+    if (entry.kind === 'void' || entry.kind === 'amend') {
+      const old = target && entry.kind === 'amend'
+        ? Object.fromEntries(Object.keys(entry.changes).map((k) => [k, (target as Record<string, unknown>)[k] ?? null]))
+        : (target ?? null);
+      this.audit.record({
+        action: entry.kind === 'void' ? 'entry.voided' : 'entry.amended',
+        userId: user.id,
+        username: user.username,
+        codeId,
+        detail: {
+          entryId: entry.id,
+          target: entry.target,
+          reason: entry.reason,
+          addendum,
+          old,
+          new: entry.kind === 'amend' ? entry.changes : null,
+          ...(entry.kind === 'amend' ? { changes: entry.changes } : {}),
+        },
+      });
+    } else if (addendum) {
+      this.audit.record({
+        action: 'record.addendum',
+        userId: user.id,
+        username: user.username,
+        codeId,
+        detail: { entryId: entry.id, kind: entry.kind, old: null, new: entry },
+      });
+    }
   }
 
   entriesAfter(codeId: string, afterCursor = 0): { entries: StoredEntry[]; cursor: number } {

@@ -91,6 +91,7 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
     this.events.onAdded((event) => nsp.to(roomOf(event.codeId)).emit('entry:added', event));
     this.events.onCodesChanged((codeId) => nsp.to(BOARD_ROOM).emit('codes:changed', { codeId }));
     this.sessions.events.on('ended', (sid: string) => this.disconnectSession(sid));
+    this.sessions.events.on('user-disabled', (userId: string) => this.disconnectUser(userId));
   }
 
   handleConnection(socket: LiveSocket): void {

@@ -1,0 +1,103 @@
+import { createHash } from 'node:crypto';
+import canonicalize from 'canonicalize';
+import type { Code, SignatureMeaning, StoredEntry, TeamMember } from '@steadyhand/shared';
+
+export const RECORD_FORMAT = 'steadyhand-record/1';
+
+export interface RecordAttachment {
+  id: string;
+  sha256: string;
+  filename: string;
+  mediaType: string;
+  sizeBytes: number;
+  uploadedAt: string;
+}
+
+export type RecordCode = Code & { team: TeamMember[]; debriefNotes: string | null };
+
+/** Everything the signatures and the digest cover. */
+export interface CanonicalRecord {
+  format: typeof RECORD_FORMAT;
+  facility: string;
+  code: RecordCode;
+  /** Every stored entry (corrections and addenda included) in cursor order, with the server's fields. */
+  entries: StoredEntry[];
+  attachments: RecordAttachment[];
+}
+
+/** RFC 8785 (JSON Canonicalization Scheme): the same record always gives the same bytes. */
+export function canonicalText(value: unknown): string {
+  const text = canonicalize(value);
+  if (text === undefined) throw new Error('The record cannot be canonicalised');
+  return text;
+}
+
+export function sha256Hex(text: string | Buffer): string {
+  return createHash('sha256').update(text).digest('hex');
+}
+
+export function recordDigest(record: CanonicalRecord): string {
+  return sha256Hex(canonicalText(record));
+}
+
+/**
+ * The record as it stood at a moment: the entries and attachments stored by then. After the first
+ * signature the code's details are frozen and the log only grows (addenda), so this rebuilds
+ * exactly what each signer signed.
+ */
+export function recordAsOf(record: CanonicalRecord, at: string): CanonicalRecord {
+  const t = Date.parse(at);
+  return {
+    ...record,
+    entries: record.entries.filter((e) => Date.parse(e.recordedAt) <= t),
+    attachments: record.attachments.filter((a) => Date.parse(a.uploadedAt) <= t),
+  };
+}
+
+export interface SignaturePayload {
+  recordId: string;
+  digest: string;
+  signerId: string;
+  printedName: string;
+  meaning: SignatureMeaning;
+  signedAt: string;
+}
+
+/** What the server's Ed25519 signature of a person's signature covers: it names its record, so it cannot move. */
+export function signaturePayloadText(p: SignaturePayload): string {
+  return canonicalText({
+    recordId: p.recordId,
+    digest: p.digest,
+    signerId: p.signerId,
+    printedName: p.printedName,
+    meaning: p.meaning,
+    signedAt: p.signedAt,
+  });
+}
+
+export interface PdfStamp {
+  recordId: string;
+  digest: string;
+  generatedAt: string;
+}
+
+/** What the server signs when it makes a printed copy. */
+export function pdfStampText(p: PdfStamp): string {
+  return canonicalText({ recordId: p.recordId, digest: p.digest, generatedAt: p.generatedAt });
+}
+
+/** The stamp as written into the PDF's Keywords and read back from the file's bytes. */
+export function formatPdfStamp(p: PdfStamp & { signature: string }): string {
+  return `steadyhand-record:${p.recordId} sha256:${p.digest} sig:${p.signature} at:${p.generatedAt}`;
+}
+
+const STAMP_PATTERN =
+  /steadyhand-record:([0-9A-Za-z-]{1,64}) sha256:([0-9a-f]{64}) sig:([A-Za-z0-9_-]{20,200}) at:(\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}(?:\.\d{1,3})?Z)/;
+
+/** Finds the stamp in a PDF's bytes (the document information dictionary is not compressed). */
+export function readPdfStamp(bytes: Buffer): (PdfStamp & { signature: string }) | undefined {
+  const match = STAMP_PATTERN.exec(bytes.toString('latin1'));
+  if (!match) return undefined;
+  const [, recordId, digest, signature, generatedAt] = match as unknown as [string, string, string, string, string];
+  return { recordId, digest, signature, generatedAt };
+}

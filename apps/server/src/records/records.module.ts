@@ -1,0 +1,16 @@
+import { Module } from '@nestjs/common';
+import { CodesModule } from '../codes/codes.module.js';
+import { ProtocolModule } from '../protocol/protocol.module.js';
+import { UsersModule } from '../users/users.module.js';
+import { RecordsController } from './records.controller.js';
+import { RecordsService } from './records.service.js';
+import { SignaturesRepository } from './signatures.repository.js';
+
+/** The signed record: review details, signatures, addenda, the PDF and its verification. */
+@Module({
+  imports: [CodesModule, UsersModule, ProtocolModule],
+  controllers: [RecordsController],
+  providers: [RecordsService, SignaturesRepository],
+  exports: [RecordsService],
+})
+export class RecordsModule {}

@@ -1,0 +1,376 @@
+import { randomUUID } from 'node:crypto';
+import {
+  ConflictException,
+  ForbiddenException,
+  Inject,
+  Injectable,
+  NotFoundException,
+  Optional,
+  UnauthorizedException,
+} from '@nestjs/common';
+import {
+  hasAnyRole,
+  liveEntries,
+  SIGNATURE_MEANING_ROLE,
+  SIGNATURE_MEANING_TEXT,
+  summarizeCode,
+  type NewEntry,
+  type RecordSignature,
+  type RecordStatus,
+  type ReviewDetailsRequest,
+  type SignRecordRequest,
+  type StoredEntry,
+  type VerifyRecordRequest,
+  type VerifyRecordResult,
+} from '@steadyhand/shared';
+import { AuditService } from '../audit/audit.service.js';
+import { verifyPassword } from '../auth/password.js';
+import type { SessionUser } from '../auth/session-user.js';
+import { CodesRepository } from '../codes/codes.repository.js';
+import { EntriesService } from '../codes/entries.service.js';
+import { APP_CONFIG } from '../config/config.module.js';
+import type { AppConfig } from '../config/config.js';
+import { MailService } from '../mail/mail.service.js';
+import { ProtocolService } from '../protocol/protocol.service.js';
+import { UsersService } from '../users/users.service.js';
+import { DB } from '../db/database.module.js';
+import type { Db } from '../db/database.js';
+import { users } from '../db/schema/index.js';
+import {
+  formatPdfStamp,
+  pdfStampText,
+  readPdfStamp,
+  recordAsOf,
+  recordDigest,
+  RECORD_FORMAT,
+  sha256Hex,
+  signaturePayloadText,
+  type CanonicalRecord,
+  type RecordCode,
+} from './record-canonical.js';
+import { loadOrCreateRecordKeys, signText, verifyText, type RecordKeys } from './record-keys.js';
+import { buildRecordPdf, renderPdf } from './record-pdf.js';
+import { SignaturesRepository, type SignatureRow } from './signatures.repository.js';
+
+export interface RecordView {
+  record: CanonicalRecord;
+  digest: string;
+  signatures: RecordSignature[];
+  status: RecordStatus;
+}
+
+@Injectable()
+export class RecordsService {
+  private keys: RecordKeys | undefined;
+
+  constructor(
+    @Inject(APP_CONFIG) private readonly config: AppConfig,
+    @Inject(DB) private readonly db: Db,
+    @Inject(CodesRepository) private readonly codes: CodesRepository,
+    @Inject(EntriesService) private readonly entries: EntriesService,
+    @Inject(SignaturesRepository) private readonly signatures: SignaturesRepository,
+    @Inject(ProtocolService) private readonly protocol: ProtocolService,
+    @Inject(UsersService) private readonly users: UsersService,
+    @Inject(AuditService) private readonly audit: AuditService,
+    // Optional, so the records feature works (and its tests run) in an app without the mail module.
+    @Optional() @Inject(MailService) private readonly mail?: MailService,
+  ) {}
+
+  /** The key pair, made on first use. */
+  private recordKeys(): RecordKeys {
+    this.keys ??= loadOrCreateRecordKeys(this.config.dataDir);
+    return this.keys;
+  }
+
+  publicKeyPem(): string {
+    return this.recordKeys().publicKeyPem;
+  }
+
+  // --- the record ----------------------------------------------------------------------------
+
+  private recordCode(id: string): RecordCode {
+    const code = this.codes.findCode(id);
+    const details = this.codes.reviewDetails(id);
+    if (!code || !details) throw new NotFoundException(`No code with id ${id}`);
+    return { ...code, team: details.team ?? [], debriefNotes: details.debriefNotes };
+  }
+
+  canonicalRecord(id: string): CanonicalRecord {
+    const code = this.recordCode(id);
+    return {
+      format: RECORD_FORMAT,
+      facility: this.signatures.facility().name,
+      code,
+      entries: this.codes.entriesOf(id),
+      attachments: this.signatures.attachmentsOf(id),
+    };
+  }
+
+  /**
+   * A person's signature counts when the server's Ed25519 signature verifies over its own
+   * fields (the record id included, so a copied row fails) and its digest is the record as it
+   * stood when it was signed (so any changed byte since fails).
+   */
+  private signatureValid(row: SignatureRow, record: CanonicalRecord): boolean {
+    const payload = signaturePayloadText({
+      recordId: row.codeId,
+      digest: row.recordDigest,
+      signerId: row.userId,
+      printedName: row.printedName,
+      meaning: row.meaning,
+      signedAt: row.signedAt,
+    });
+    if (row.codeId !== record.code.id) return false;
+    if (!verifyText(this.recordKeys().publicKey, payload, row.serverSignature)) return false;
+    return recordDigest(recordAsOf(record, row.signedAt)) === row.recordDigest;
+  }
+
+  private statusOf(rows: SignatureRow[]): RecordStatus {
+    const meanings = new Set(rows.map((r) => r.meaning));
+    return meanings.size === 0 ? 'draft' : meanings.has('recorded-by') && meanings.has('reviewed-confirmed') ? 'signed' : 'partly-signed';
+  }
+
+  view(id: string): RecordView {
+    const record = this.canonicalRecord(id);
+    const rows = this.signatures.ofCode(id);
+    return {
+      record,
+      digest: recordDigest(record),
+      signatures: rows.map((r) => ({
+        printedName: r.printedName,
+        meaning: r.meaning,
+        meaningText: SIGNATURE_MEANING_TEXT[r.meaning],
+        signedAt: r.signedAt,
+        valid: this.signatureValid(r, record),
+      })),
+      status: this.statusOf(rows),
+    };
+  }
+
+  // --- review details ------------------------------------------------------------------------
+
+  updateReview(user: SessionUser, id: string, changes: ReviewDetailsRequest): { code: RecordCode } {
+    const before = this.recordCode(id);
+    if (this.codes.isSigned(id)) throw new ConflictException('This record is signed: add an addendum');
+    const { outcome, ...details } = changes;
+    if (outcome !== undefined && outcome !== before.outcome) this.confirmOutcome(user, id, outcome);
+    if (Object.keys(details).length > 0) {
+      this.codes.updateCode(id, {
+        ...(details.team !== undefined ? { team: details.team } : {}),
+        ...(details.debriefNotes !== undefined ? { debriefNotes: details.debriefNotes || null } : {}),
+        ...(details.patient !== undefined ? { patient: details.patient } : {}),
+        ...(details.location !== undefined ? { location: details.location } : {}),
+      });
+    }
+    const after = this.recordCode(id);
+    const changed = Object.fromEntries(
+      Object.keys(changes).map((k) => [k, { from: before[k as keyof RecordCode] ?? null, to: after[k as keyof RecordCode] ?? null }]),
+    );
+    this.audit.record({ action: 'code.review-changed', userId: user.id, username: user.username, codeId: id, detail: changed });
+    return { code: after };
+  }
+
+  /**
+   * The outcome belongs to the log (the end entry): confirming another one at review amends the
+   * end entry, so the summary, the code row and the PDF all agree and the original stays visible.
+   */
+  private confirmOutcome(user: SessionUser, id: string, outcome: NonNullable<ReviewDetailsRequest['outcome']>): void {
+    const end = liveEntries(this.codes.entriesOf(id)).find((e) => e.kind === 'end');
+    if (!end || end.kind !== 'end') throw new ConflictException('The code has not ended: record its end before confirming the outcome');
+    if (end.outcome === outcome) return;
+    const amend: NewEntry = {
+      id: randomUUID(),
+      kind: 'amend',
+      at: new Date().toISOString(),
+      target: end.id,
+      changes: { outcome },
+      reason: 'Outcome confirmed at review',
+      deviceId: 'review',
+    };
+    this.entries.add(user, id, amend);
+  }
+
+  // --- signing -------------------------------------------------------------------------------
+
+  async sign(user: SessionUser, id: string, body: SignRecordRequest): Promise<{ signature: RecordSignature; status: RecordStatus }> {
+    const code = this.recordCode(id);
+    if (code.status !== 'ended') throw new ConflictException('The code has not ended: a record is signed after the code ends');
+    const role = SIGNATURE_MEANING_ROLE[body.meaning];
+    if (!hasAnyRole(user.roles, [role])) {
+      throw new ForbiddenException(`Only a person with the ${role} role can sign as "${SIGNATURE_MEANING_TEXT[body.meaning]}"`);
+    }
+    const existing = this.signatures.ofCode(id);
+    if (existing.some((r) => r.meaning === body.meaning)) {
+      throw new ConflictException(`This record already has a "${SIGNATURE_MEANING_TEXT[body.meaning]}" signature`);
+    }
+    // A review by the person who recorded is no second pair of eyes.
+    if (existing.some((r) => r.userId === user.id)) {
+      throw new ConflictException('You have already signed this record: the other signature must come from another person');
+    }
+
+    // 21 CFR 11.200: the password again at the moment of signing.
+    const row = this.users.findByUsername(user.username);
+    if (!row || !(await verifyPassword(body.password, row.passwordHash))) {
+      this.audit.record({ action: 'record.sign-failed', userId: user.id, username: user.username, codeId: id, detail: { meaning: body.meaning, reason: 'password does not match' } });
+      throw new UnauthorizedException('password does not match');
+    }
+
+    // After the await: checked again, since another signature may have landed meanwhile.
+    if (this.signatures.ofCode(id).some((r) => r.meaning === body.meaning || r.userId === user.id)) {
+      throw new ConflictException(`This record already has a "${SIGNATURE_MEANING_TEXT[body.meaning]}" signature`);
+    }
+    const record = this.canonicalRecord(id);
+    const digest = recordDigest(record);
+    // Not earlier than any stored entry, so the record "as of" this signature holds all it signed.
+    const latest = Math.max(Date.now(), ...record.entries.map((e) => Date.parse(e.recordedAt)), ...record.attachments.map((a) => Date.parse(a.uploadedAt)));
+    const signedAt = new Date(latest).toISOString();
+    const printedName = user.displayName;
+    const serverSignature = signText(
+      this.recordKeys().privateKey,
+      signaturePayloadText({ recordId: id, digest, signerId: user.id, printedName, meaning: body.meaning, signedAt }),
+    );
+    const signatureRow: SignatureRow = { id: randomUUID(), codeId: id, userId: user.id, printedName, meaning: body.meaning, signedAt, recordDigest: digest, serverSignature };
+    this.signatures.insert(signatureRow);
+    this.audit.record({
+      action: 'record.signed',
+      userId: user.id,
+      username: user.username,
+      codeId: id,
+      detail: { signatureId: signatureRow.id, meaning: body.meaning, printedName, signedAt, digest },
+    });
+
+    const rows = this.signatures.ofCode(id);
+    const status = this.statusOf(rows);
+    if (status === 'signed') this.notifySigned(id, rows);
+    return {
+      signature: { printedName, meaning: body.meaning, meaningText: SIGNATURE_MEANING_TEXT[body.meaning], signedAt, valid: true },
+      status,
+    };
+  }
+
+  /**
+   * Tells pharmacy and reviewers that a record is ready. Not awaited: the mail service records
+   * every failure in mail_log and never rejects, and a slow relay must not hold up the signer.
+   */
+  private notifySigned(codeId: string, rows: SignatureRow[]): void {
+    if (!this.mail) return;
+    const link = `${this.config.publicOrigin}/codes/${codeId}/review`;
+    const signers = rows.map((r) => `${r.printedName} (${SIGNATURE_MEANING_TEXT[r.meaning]})`);
+    void this.mail.sendRecordSigned({ codeId, link, signers });
+  }
+
+  // --- addenda -------------------------------------------------------------------------------
+
+  addAddendum(user: SessionUser, id: string, entry: NewEntry): { entry: StoredEntry; duplicate: boolean } {
+    return this.entries.add(user, id, entry, new Date().toISOString(), { addendum: true });
+  }
+
+  // --- the printed copy ----------------------------------------------------------------------
+
+  async pdf(user: SessionUser, id: string): Promise<{ buffer: Buffer; filename: string }> {
+    const view = this.view(id);
+    const { record, digest } = view;
+    const settings = this.protocol.current();
+    const summary = summarizeCode({ code: record.code, entries: record.entries, settings });
+    const generatedAt = new Date().toISOString();
+    const signature = signText(this.recordKeys().privateKey, pdfStampText({ recordId: id, digest, generatedAt }));
+    const definition = buildRecordPdf({
+      record,
+      digest,
+      status: view.status,
+      summary,
+      settings,
+      signatures: view.signatures,
+      people: this.peopleOf(record),
+      timeZone: this.timeZone(),
+      generatedAt,
+      stamp: formatPdfStamp({ recordId: id, digest, signature, generatedAt }),
+    });
+    const buffer = await renderPdf(definition);
+    // The file's own hash, so verification can tell this exact file from an edited one.
+    this.audit.record({
+      action: 'record.printed',
+      userId: user.id,
+      username: user.username,
+      codeId: id,
+      detail: { digest, generatedAt, status: view.status, fileSha256: sha256Hex(buffer) },
+    });
+    return { buffer, filename: `steadyhand-record-${id}.pdf` };
+  }
+
+  private timeZone(): string {
+    const configured = this.signatures.facility().timeZone;
+    if (configured) {
+      try {
+        new Intl.DateTimeFormat('en-GB', { timeZone: configured });
+        return configured;
+      } catch {
+        // An unknown zone name falls back to the server's.
+      }
+    }
+    return Intl.DateTimeFormat().resolvedOptions().timeZone;
+  }
+
+  private peopleOf(record: CanonicalRecord): Map<string, string> {
+    const rows = this.db.select({ id: users.id, displayName: users.displayName }).from(users).all();
+    const ids = new Set(record.entries.map((e) => e.userId));
+    return new Map(rows.filter((r) => ids.has(r.id)).map((r) => [r.id, r.displayName]));
+  }
+
+  // --- verification --------------------------------------------------------------------------
+
+  verifyPdf(bytes: Buffer): VerifyRecordResult {
+    if (bytes.subarray(0, 5).toString('latin1') !== '%PDF-') return { valid: false, reason: 'This file is not a PDF.' };
+    const stamp = readPdfStamp(bytes);
+    if (!stamp) return { valid: false, reason: 'This PDF carries no Steadyhand record stamp: it was not made by Steadyhand, or its metadata was removed.' };
+    if (!verifyText(this.recordKeys().publicKey, pdfStampText(stamp), stamp.signature)) {
+      return { valid: false, reason: "The server signature in this file does not verify: the file was altered, or it was not made by this server." };
+    }
+    const result = this.verifyAgainst(stamp.recordId, stamp.digest);
+    if (!result.valid || !result.record) return result;
+    const issued = this.signatures.findIssuedCopy(stamp.recordId, sha256Hex(bytes));
+    if (!issued) {
+      return {
+        ...result,
+        valid: false,
+        reason: 'The record is unchanged, but this file is not byte for byte a copy the server issued: its pages may have been edited. Print a fresh copy.',
+      };
+    }
+    return { ...result, reason: `${result.reason} This file is the copy issued on ${issued.at}.` };
+  }
+
+  verifyDigest(body: VerifyRecordRequest): VerifyRecordResult {
+    const candidates = body.recordId ? [body.recordId] : this.signatures.codesSignedWithDigest(body.digest);
+    if (candidates.length === 0) {
+      return { valid: false, reason: 'No signed record has this digest. Enter the record id printed on the copy as well, or upload the PDF.' };
+    }
+    // A digest alone may name a record that changed since: the first candidate that still matches wins.
+    const results = candidates.map((id) => this.verifyAgainst(id, body.digest));
+    return results.find((r) => r.valid) ?? results[0]!;
+  }
+
+  private verifyAgainst(recordId: string, digest: string): VerifyRecordResult {
+    if (!this.codes.findCode(recordId)) return { valid: false, reason: 'No record with this id on this server.' };
+    const view = this.view(recordId);
+    const summary = {
+      id: recordId,
+      location: view.record.code.location,
+      arrestAt: view.record.code.arrestAt,
+      status: view.status,
+      signatures: view.signatures,
+    };
+    if (view.digest !== digest) {
+      return { valid: false, reason: 'The record has changed since this copy was made: its digest is no longer the record’s.', record: summary };
+    }
+    const bad = view.signatures.filter((s) => !s.valid);
+    if (bad.length) {
+      return {
+        valid: false,
+        reason: `${bad.map((s) => `The "${s.meaningText}" signature of ${s.printedName}`).join(' and ')} does not verify against this record.`,
+        record: summary,
+      };
+    }
+    const how = view.status === 'draft' ? 'It is a draft: nobody has signed it yet.' : view.status === 'partly-signed' ? 'It carries one of its two signatures.' : 'Both signatures verify.';
+    return { valid: true, reason: `This copy matches the record as it is now. ${how}`, record: summary };
+  }
+}

@@ -1,0 +1,69 @@
+import { Inject, Injectable } from '@nestjs/common';
+import type { SignatureMeaning } from '@steadyhand/shared';
+import { and, asc, eq, like } from 'drizzle-orm';
+import { DB } from '../db/database.module.js';
+import type { Db } from '../db/database.js';
+import { attachments, auditEvents, settings, signatures } from '../db/schema/index.js';
+import type { RecordAttachment } from './record-canonical.js';
+
+export type SignatureRow = typeof signatures.$inferSelect;
+
+export const DEFAULT_FACILITY = 'Steadyhand';
+
+/** Signatures (append-only by trigger) and the other rows a record is made of. */
+@Injectable()
+export class SignaturesRepository {
+  constructor(@Inject(DB) private readonly db: Db) {}
+
+  insert(row: SignatureRow): void {
+    this.db.insert(signatures).values(row).run();
+  }
+
+  /** In signing order. */
+  ofCode(codeId: string): SignatureRow[] {
+    return this.db.select().from(signatures).where(eq(signatures.codeId, codeId)).orderBy(asc(signatures.signedAt), asc(signatures.id)).all();
+  }
+
+  /** Codes with a signature over this digest (verification by digest alone). */
+  codesSignedWithDigest(digest: string): string[] {
+    const rows = this.db.selectDistinct({ codeId: signatures.codeId }).from(signatures).where(eq(signatures.recordDigest, digest)).all();
+    return rows.map((r) => r.codeId);
+  }
+
+  attachmentsOf(codeId: string): RecordAttachment[] {
+    return this.db
+      .select({
+        id: attachments.id,
+        sha256: attachments.sha256,
+        filename: attachments.filename,
+        mediaType: attachments.mediaType,
+        sizeBytes: attachments.sizeBytes,
+        uploadedAt: attachments.uploadedAt,
+      })
+      .from(attachments)
+      .where(eq(attachments.codeId, codeId))
+      .orderBy(asc(attachments.uploadedAt), asc(attachments.id))
+      .all();
+  }
+
+  /** The facility settings: `{ name, timeZone? }` (the time zone prints clock times on paper). */
+  facility(): { name: string; timeZone: string | undefined } {
+    const row = this.db.select({ value: settings.value }).from(settings).where(eq(settings.key, 'facility')).get();
+    const value = (row?.value ?? {}) as { name?: unknown; timeZone?: unknown };
+    const name = typeof value.name === 'string' && value.name.trim() ? value.name.trim() : DEFAULT_FACILITY;
+    return { name, timeZone: typeof value.timeZone === 'string' ? value.timeZone : undefined };
+  }
+
+  /** When and for whom a printed copy with these exact bytes was issued (from the audit trail). */
+  findIssuedCopy(codeId: string, fileSha256: string): { at: string; username: string | null } | undefined {
+    return this.db
+      .select({ at: auditEvents.at, username: auditEvents.username })
+      .from(auditEvents)
+      .where(and(eq(auditEvents.action, 'record.printed'), eq(auditEvents.codeId, codeId), like(auditEvents.detail, `%"fileSha256":"${fileSha256}"%`)))
+      .get();
+  }
+
+  meaningsOf(codeId: string): SignatureMeaning[] {
+    return this.ofCode(codeId).map((r) => r.meaning);
+  }
+}

@@ -1,0 +1,89 @@
+import { z } from 'zod';
+import { patientSchema } from './codes.js';
+import { OUTCOMES } from './entries.js';
+
+/**
+ * The signed record: review details completed after the code, signatures and their meanings
+ * (21 CFR 11.50: printed name, date and time, meaning), and the verification answer.
+ */
+
+export const teamMemberSchema = z
+  .object({
+    name: z.string().trim().min(1, 'name is required').max(120),
+    role: z.string().trim().min(1, 'role is required').max(60),
+  })
+  .strict();
+export type TeamMember = z.infer<typeof teamMemberSchema>;
+
+/** Details completed at review. Refused once the record carries a signature (then: addenda). */
+export const reviewDetailsSchema = z
+  .object({
+    team: z.array(teamMemberSchema).max(40).optional(),
+    debriefNotes: z.string().trim().max(5000).nullable().optional(),
+    outcome: z.enum(OUTCOMES).optional(),
+    patient: patientSchema.nullable().optional(),
+    location: z.string().trim().max(120).nullable().optional(),
+  })
+  .strict()
+  .refine((v) => Object.keys(v).length > 0, 'Send at least one field to change');
+export type ReviewDetailsRequest = z.infer<typeof reviewDetailsSchema>;
+
+export const SIGNATURE_MEANINGS = ['recorded-by', 'reviewed-confirmed'] as const;
+export type SignatureMeaning = (typeof SIGNATURE_MEANINGS)[number];
+
+/** The words printed beside each signature, on screen and on paper. */
+export const SIGNATURE_MEANING_TEXT = {
+  'recorded-by': 'Recorded by',
+  'reviewed-confirmed': 'Reviewed and confirmed by',
+} as const satisfies Record<SignatureMeaning, string>;
+
+/** The role a person must hold to sign with each meaning. */
+export const SIGNATURE_MEANING_ROLE = {
+  'recorded-by': 'recorder',
+  'reviewed-confirmed': 'leader',
+} as const satisfies Record<SignatureMeaning, 'recorder' | 'leader'>;
+
+export const signRecordSchema = z
+  .object({
+    meaning: z.enum(SIGNATURE_MEANINGS),
+    password: z.string().min(1, 'password is required').max(1024),
+  })
+  .strict();
+export type SignRecordRequest = z.infer<typeof signRecordSchema>;
+
+export const RECORD_STATUSES = ['draft', 'partly-signed', 'signed'] as const;
+export type RecordStatus = (typeof RECORD_STATUSES)[number];
+
+export interface RecordSignature {
+  printedName: string;
+  meaning: SignatureMeaning;
+  meaningText: (typeof SIGNATURE_MEANING_TEXT)[SignatureMeaning];
+  signedAt: string;
+  /** The server signature verifies, names this record, and its digest is the record as it was at signing. */
+  valid: boolean;
+}
+
+/** Verify by digest (and, optionally, the record id printed on the copy). */
+export const verifyRecordSchema = z
+  .object({
+    digest: z
+      .string()
+      .trim()
+      .toLowerCase()
+      .regex(/^[0-9a-f]{64}$/, 'digest must be 64 hexadecimal characters (SHA-256)'),
+    recordId: z.string().trim().min(1).max(64).optional(),
+  })
+  .strict();
+export type VerifyRecordRequest = z.infer<typeof verifyRecordSchema>;
+
+export interface VerifyRecordResult {
+  valid: boolean;
+  reason: string;
+  record?: {
+    id: string;
+    location: string | null;
+    arrestAt: string;
+    status: RecordStatus;
+    signatures: RecordSignature[];
+  };
+}
