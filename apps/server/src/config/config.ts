@@ -32,6 +32,13 @@ const envSchema = z.object({
   WEB_DIST: z.string().optional(),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
+  /** Runs the local fake mail relay inside the server on 127.0.0.1:SMTP_PORT (development and tests). */
+  FAKE_SMTP: boolFromEnv.default(false),
+  PHARMACY_EMAIL: z.string().min(3).default('pharmacy@harbourview.example'),
+  REVIEWERS_EMAIL: z.string().min(3).default('resus-committee@harbourview.example'),
+  MAIL_FROM: z.string().min(3).default('Steadyhand <steadyhand@harbourview.example>'),
+  /** Largest attachment accepted, in megabytes (fractions allowed). */
+  ATTACHMENT_MAX_MB: z.coerce.number().positive().max(1024).default(15),
 });
 
 export interface AppConfig {
@@ -53,6 +60,10 @@ export interface AppConfig {
   migrationsDir: string;
   sessionSecret: string;
   smtp: { host: string; port: number };
+  /** The fake relay listens on smtp.port and the mail transport follows it (port 0 picks a free one). */
+  fakeSmtp: boolean;
+  mail: { from: string; pharmacy: string; reviewers: string };
+  attachmentMaxBytes: number;
 }
 
 export class ConfigError extends Error {}
@@ -94,6 +105,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     migrationsDir: path.join(REPO_ROOT, 'drizzle'),
     sessionSecret: readOrCreateSecret(dataDir, 'session-secret', () => randomBytes(48).toString('base64url')),
     smtp: { host: e.SMTP_HOST, port: e.SMTP_PORT },
+    fakeSmtp: e.FAKE_SMTP,
+    mail: { from: e.MAIL_FROM, pharmacy: e.PHARMACY_EMAIL, reviewers: e.REVIEWERS_EMAIL },
+    attachmentMaxBytes: Math.floor(e.ATTACHMENT_MAX_MB * 1024 * 1024),
   };
 }
 
