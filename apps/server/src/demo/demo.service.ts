@@ -6,6 +6,7 @@ import type { AppConfig } from '../config/config.js';
 import { DB } from '../db/database.module.js';
 import type { Db } from '../db/database.js';
 import { settings, units } from '../db/schema/index.js';
+import { seedDemoTray } from '../pharmacy/demo-tray.js';
 import { UsersService } from '../users/users.service.js';
 import { DEMO_FACILITY, DEMO_PASSWORD, DEMO_PEOPLE, DEMO_UNITS } from './demo-data.js';
 
@@ -36,9 +37,12 @@ export class DemoService {
     const now = new Date().toISOString();
     this.db.transaction((tx) => {
       tx.insert(settings).values({ key: 'facility', value: { name: DEMO_FACILITY }, updatedAt: now }).onConflictDoNothing().run();
+      const unitIds: string[] = [];
       for (const name of DEMO_UNITS) {
-        tx.insert(units).values({ id: randomUUID(), name, createdAt: now }).onConflictDoNothing().run();
+        const id = randomUUID();
+        if (tx.insert(units).values({ id, name, createdAt: now }).onConflictDoNothing().run().changes === 1) unitIds.push(id);
       }
+      seedDemoTray(tx, unitIds, now);
     });
     for (const person of DEMO_PEOPLE) {
       await this.users.create({ ...person, password: DEMO_PASSWORD }, { userId: null, username: 'demo-loader' });

@@ -1,0 +1,18 @@
+import { Module } from '@nestjs/common';
+import { CodesModule } from '../codes/codes.module.js';
+import { ProtocolModule } from '../protocol/protocol.module.js';
+import { UsersModule } from '../users/users.module.js';
+import { PharmacyMailer } from './pharmacy-mailer.js';
+import { PharmacyRepository } from './pharmacy.repository.js';
+import { ReconciliationController } from './reconciliation.controller.js';
+import { ReconciliationService } from './reconciliation.service.js';
+import { TraysController } from './trays.controller.js';
+import { TraysService } from './trays.service.js';
+
+/** Tray templates, the pharmacist's worklist and drug reconciliation, restock lists. */
+@Module({
+  imports: [CodesModule, ProtocolModule, UsersModule],
+  controllers: [TraysController, ReconciliationController],
+  providers: [PharmacyRepository, TraysService, ReconciliationService, PharmacyMailer],
+})
+export class PharmacyModule {}

@@ -1,0 +1,178 @@
+import { describe, expect, it } from 'vitest';
+import type { LogEntry } from './effective-log.js';
+import { DEFAULT_PROTOCOL } from './protocol.js';
+import {
+  convertToItemUnit,
+  reconcileDrugs,
+  reconciliationCounts,
+  saveReconciliationSchema,
+  trayTemplateInputSchema,
+  type ReconciledDrug,
+  type ReconciliationLineInput,
+  type TrayItem,
+} from './reconciliation.js';
+import { summarizeCode } from './summary.js';
+
+// Tray strengths below are common practice for an adult code-cart tray, no published source
+// (prefilled syringes and vials as commonly stocked in North American hospitals).
+
+let n = 0;
+const item = (fields: Partial<TrayItem> & Pick<TrayItem, 'drugKey' | 'strengthAmount' | 'strengthUnit'>): TrayItem => ({
+  id: `item-${++n}`,
+  label: fields.drugKey,
+  volumeMl: null,
+  quantity: 2,
+  controlled: false,
+  sortOrder: n,
+  ...fields,
+});
+
+const EPI = item({ drugKey: 'epinephrine', label: 'Epinephrine', strengthAmount: 1, strengthUnit: 'mg', volumeMl: 10, quantity: 10 }); // 1 mg in 10 mL (0.1 mg/mL), common practice
+const AMIO = item({ drugKey: 'amiodarone', label: 'Amiodarone', strengthAmount: 150, strengthUnit: 'mg', volumeMl: 3, quantity: 4 }); // 150 mg in 3 mL (50 mg/mL), common practice
+const BICARB = item({ drugKey: 'sodium-bicarbonate', label: 'Sodium bicarbonate 8.4%', strengthAmount: 50, strengthUnit: 'meq', volumeMl: 50 }); // 8.4% = 1 mEq/mL, 50 mL syringe = 50 mEq, common practice
+const BICARB_ML = item({ drugKey: 'sodium-bicarbonate', label: 'Sodium bicarbonate 8.4%', strengthAmount: 50, strengthUnit: 'mL' }); // the same syringe counted by volume
+const CALCIUM = item({ drugKey: 'calcium-chloride', label: 'Calcium chloride 10%', strengthAmount: 1, strengthUnit: 'g', volumeMl: 10 }); // 1 g in 10 mL, common practice
+const MAG = item({ drugKey: 'magnesium-sulfate', label: 'Magnesium sulfate', strengthAmount: 2, strengthUnit: 'g' }); // common practice
+const NALOXONE = item({ drugKey: 'naloxone', label: 'Naloxone', strengthAmount: 0.4, strengthUnit: 'mg', volumeMl: 1 }); // 0.4 mg/mL, common practice
+const ATROPINE = item({ drugKey: 'atropine', label: 'Atropine', strengthAmount: 1, strengthUnit: 'mg', volumeMl: 10 }); // common practice
+const MIDAZOLAM = item({ drugKey: 'midazolam', label: 'Midazolam', strengthAmount: 5, strengthUnit: 'mg', volumeMl: 5, controlled: true }); // 5 mg/5 mL, common practice
+
+const total = (drug: string, totalDose: number, unit: 'mg' | 'ug' | 'g' | 'meq' | 'mL', doses = 1) => ({ drug, label: drug, unit, total: totalDose, doses });
+const line = (drugKey: string, unitsOpened: number, unitsWasted = 0, wasteWitness: string | null = null): ReconciliationLineInput => ({
+  drugKey,
+  trayItemId: null,
+  unitsOpened,
+  unitsWasted,
+  wasteWitness,
+  lotNumbers: null,
+  note: null,
+});
+const one = (rows: ReconciledDrug[], key: string): ReconciledDrug => {
+  const row = rows.find((r) => r.drugKey === key);
+  if (!row) throw new Error(`no row for ${key}`);
+  return row;
+};
+const kinds = (row: ReconciledDrug) => row.discrepancies.map((d) => d.kind);
+
+describe('reconcileDrugs: the discrepancy rules on worked cases', () => {
+  it('flags 3 mg of epinephrine given from two opened 1 mg units', () => {
+    const rows = reconcileDrugs({ drugTotals: [total('epinephrine', 3, 'mg', 3)], items: [EPI], lines: [line('epinephrine', 2)] });
+    const epi = one(rows, 'epinephrine');
+    expect(kinds(epi)).toEqual(['given-more-than-opened']);
+    expect(epi).toMatchObject({ given: 3, available: 2, leftover: -1, flagged: true, restock: 2 });
+  });
+
+  it('balances 300 + 150 mg of amiodarone against three opened 150 mg vials', () => {
+    // 300 mg then 150 mg: AHA 2020 Adult Cardiac Arrest Algorithm.
+    const drugTotals = summarizeCode({
+      code: { arrestAt: '2026-03-04T07:42:10.000Z', endedAt: null, category: 'adult', weightKg: null },
+      entries: [
+        { id: '00000000-0000-4000-8000-000000000001', kind: 'drug', at: '2026-03-04T07:50:00.000Z', drug: 'amiodarone', dose: 300, unit: 'mg', route: 'iv' },
+        { id: '00000000-0000-4000-8000-000000000002', kind: 'drug', at: '2026-03-04T07:56:00.000Z', drug: 'Amiodarone', dose: 150, unit: 'mg', route: 'iv' },
+      ] satisfies LogEntry[],
+      settings: DEFAULT_PROTOCOL,
+    }).drugTotals;
+    const rows = reconcileDrugs({ drugTotals, items: [AMIO], lines: [line('amiodarone', 3)], settings: DEFAULT_PROTOCOL });
+    expect(one(rows, 'amiodarone')).toMatchObject({ given: 450, available: 450, leftover: 0, doses: 2, flagged: false });
+    expect(kinds(one(rows, 'amiodarone'))).toEqual(['balanced']);
+  });
+
+  it('converts 50 mEq of sodium bicarbonate to one 50 mL syringe before comparing (8.4% is 1 mEq/mL, common practice)', () => {
+    const byVolume = reconcileDrugs({ drugTotals: [total('sodium-bicarbonate', 50, 'meq')], items: [BICARB_ML], lines: [line('sodium-bicarbonate', 1)], settings: DEFAULT_PROTOCOL });
+    expect(one(byVolume, 'sodium-bicarbonate')).toMatchObject({ unit: 'mL', given: 50, available: 50, flagged: false });
+    // A dose written as 50 mL against the syringe counted in mEq: 50 mL × 50 mEq / 50 mL.
+    const inMl = reconcileDrugs({ drugTotals: [total('sodium-bicarbonate', 50, 'mL')], items: [BICARB], lines: [line('sodium-bicarbonate', 1)] });
+    expect(one(inMl, 'sodium-bicarbonate')).toMatchObject({ unit: 'meq', given: 50, leftover: 0, flagged: false });
+    // 100 mEq from one syringe is short by a whole syringe.
+    const short = reconcileDrugs({ drugTotals: [total('sodium-bicarbonate', 100, 'meq', 2)], items: [BICARB_ML], lines: [line('sodium-bicarbonate', 1)], settings: DEFAULT_PROTOCOL });
+    expect(kinds(one(short, 'sodium-bicarbonate'))).toEqual(['given-more-than-opened']);
+  });
+
+  it('converts mass units: 1000 mcg of epinephrine is one 1 mg unit; 1000 mg of calcium chloride is one 1 g vial', () => {
+    const rows = reconcileDrugs({
+      drugTotals: [total('epinephrine', 1000, 'ug'), total('calcium-chloride', 1000, 'mg')],
+      items: [EPI, CALCIUM],
+      lines: [line('epinephrine', 1), line('calcium-chloride', 1)],
+    });
+    expect(one(rows, 'epinephrine')).toMatchObject({ given: 1, flagged: false });
+    expect(one(rows, 'calcium-chloride')).toMatchObject({ unit: 'g', given: 1, flagged: false });
+  });
+
+  it('adds doses recorded in different units of the same drug after converting each (0.5 mg + 500 mcg = 1 mg)', () => {
+    const rows = reconcileDrugs({ drugTotals: [total('epinephrine', 0.5, 'mg'), total('epinephrine', 500, 'ug')], items: [EPI], lines: [line('epinephrine', 1)] });
+    expect(one(rows, 'epinephrine')).toMatchObject({ given: 1, doses: 2, flagged: false });
+  });
+
+  it('converts a dose recorded in mL through the tray item concentration (20 mL of 1 mg/10 mL = 2 mg)', () => {
+    expect(convertToItemUnit(20, 'mL', EPI)).toBe(2);
+    const rows = reconcileDrugs({ drugTotals: [total('epinephrine', 20, 'mL', 2)], items: [EPI], lines: [line('epinephrine', 2)] });
+    expect(one(rows, 'epinephrine')).toMatchObject({ given: 2, flagged: false });
+  });
+
+  it('calls a dose in a unit that cannot be converted a unit mismatch (magnesium recorded in mEq against 2 g vials)', () => {
+    const rows = reconcileDrugs({ drugTotals: [total('magnesium-sulfate', 16, 'meq')], items: [MAG], lines: [line('magnesium-sulfate', 1)] });
+    const mag = one(rows, 'magnesium-sulfate');
+    expect(kinds(mag)).toEqual(['unit-mismatch']);
+    expect(mag).toMatchObject({ given: null, leftover: null, flagged: true });
+  });
+
+  it('flags units opened with nothing recorded and not wasted, and accepts them once wasted', () => {
+    const opened = reconcileDrugs({ drugTotals: [], items: [NALOXONE], lines: [line('naloxone', 1)] });
+    expect(kinds(one(opened, 'naloxone'))).toEqual(['opened-not-recorded']);
+    const wasted = reconcileDrugs({ drugTotals: [], items: [NALOXONE], lines: [line('naloxone', 1, 1)] });
+    expect(kinds(one(wasted, 'naloxone'))).toEqual(['balanced']);
+    expect(one(wasted, 'naloxone').restock).toBe(1);
+  });
+
+  it('flags a whole opened unit beyond what was given (1 mg given, three 1 mg units opened)', () => {
+    const rows = reconcileDrugs({ drugTotals: [total('epinephrine', 1, 'mg')], items: [EPI], lines: [line('epinephrine', 3)] });
+    expect(kinds(one(rows, 'epinephrine'))).toEqual(['opened-not-recorded']);
+  });
+
+  it('calls a part of a unit left over "partly used", information only for a drug that is not controlled', () => {
+    const rows = reconcileDrugs({ drugTotals: [total('atropine', 0.5, 'mg')], items: [ATROPINE], lines: [line('atropine', 1)] });
+    const atropine = one(rows, 'atropine');
+    expect(kinds(atropine)).toEqual(['partly-used']);
+    expect(atropine).toMatchObject({ leftover: 0.5, flagged: false });
+  });
+
+  it('needs a witness for the waste of a controlled drug, and puts controlled drugs first', () => {
+    const items = [EPI, MIDAZOLAM];
+    const unwitnessed = reconcileDrugs({ drugTotals: [total('epinephrine', 1, 'mg'), total('midazolam', 2, 'mg')], items, lines: [line('epinephrine', 1), line('midazolam', 1)] });
+    expect(unwitnessed[0]?.drugKey).toBe('midazolam');
+    expect(kinds(one(unwitnessed, 'midazolam'))).toEqual(['waste-not-witnessed', 'partly-used']);
+    const witnessed = reconcileDrugs({ drugTotals: [total('midazolam', 2, 'mg')], items, lines: [line('midazolam', 1, 0, 'R. Okafor, RN')] });
+    expect(kinds(one(witnessed, 'midazolam'))).toEqual(['partly-used']);
+    expect(one(witnessed, 'midazolam').flagged).toBe(false);
+  });
+
+  it('flags a drug given that the tray does not hold', () => {
+    const rows = reconcileDrugs({ drugTotals: [total('vasopressin', 40, 'mg')], items: [EPI], lines: [] });
+    expect(kinds(one(rows, 'vasopressin'))).toEqual(['not-on-tray']);
+    expect(reconciliationCounts(rows)).toEqual({ drugs: 1, discrepancies: 1 });
+  });
+
+  it('lists every tray item, untouched ones last as balanced, and avoids float noise (0.1 + 0.2 mg)', () => {
+    const rows = reconcileDrugs({ drugTotals: [total('naloxone', 0.4, 'mg', 2)], items: [EPI, NALOXONE], lines: [line('naloxone', 1)] });
+    expect(rows.map((r) => r.drugKey)).toEqual(['naloxone', 'epinephrine']);
+    expect(one(rows, 'epinephrine')).toMatchObject({ touched: false, flagged: false });
+    const noise = reconcileDrugs({ drugTotals: [total('naloxone', 0.1 + 0.3, 'mg', 2)], items: [NALOXONE], lines: [line('naloxone', 1)] });
+    expect(kinds(one(noise, 'naloxone'))).toEqual(['balanced']);
+  });
+});
+
+describe('reconciliation schemas', () => {
+  it('refuses a tray with the same drug twice, and more wasted than opened', () => {
+    const tray = trayTemplateInputSchema.safeParse({
+      name: 'Tray',
+      items: [
+        { drugKey: 'epinephrine', label: 'Epinephrine', strengthAmount: 1, strengthUnit: 'mg', quantity: 10 },
+        { drugKey: 'Epinephrine', label: 'Epinephrine', strengthAmount: 1, strengthUnit: 'mg', quantity: 2 },
+      ],
+    });
+    expect(tray.success).toBe(false);
+    const save = saveReconciliationSchema.safeParse({ lines: [{ drugKey: 'epinephrine', unitsOpened: 1, unitsWasted: 2 }] });
+    expect(save.success).toBe(false);
+    expect(save.error?.issues[0]?.message).toMatch(/wasted/);
+  });
+});
