@@ -1,0 +1,53 @@
+import { Inject, Injectable, Logger, type OnApplicationBootstrap } from '@nestjs/common';
+import { CodesRepository } from '../codes/codes.repository.js';
+import { EntryEvents } from '../codes/entry-events.js';
+import { ProtocolService } from '../protocol/protocol.service.js';
+import { computeCodeMetrics } from './quality-metrics.js';
+import { QualityRepository } from './quality.repository.js';
+
+/**
+ * Keeps `code_metrics` in step with the log: an ended code's row is recomputed whenever an entry
+ * lands on it (a correction or addendum after the end) or its details change; a code that reopens
+ * loses its row. Listens to the codes module's events, so the tap path does not know about us.
+ */
+@Injectable()
+export class QualityMetricsService implements OnApplicationBootstrap {
+  private readonly logger = new Logger(QualityMetricsService.name);
+
+  constructor(
+    @Inject(EntryEvents) private readonly events: EntryEvents,
+    @Inject(CodesRepository) private readonly codes: CodesRepository,
+    @Inject(ProtocolService) private readonly protocol: ProtocolService,
+    @Inject(QualityRepository) private readonly repo: QualityRepository,
+  ) {}
+
+  onApplicationBootstrap(): void {
+    // Taps on a running code change nothing here; a reopened code is announced as a codes change.
+    this.events.onAdded(({ codeId }) => this.refreshSafely(codeId, false));
+    this.events.onCodesChanged((codeId) => this.refreshSafely(codeId, true));
+    // Codes that ended while this table was not kept (an older build, a restored file).
+    const missing = this.repo.endedCodesWithoutMetrics();
+    for (const id of missing) this.refreshSafely(id, false);
+    if (missing.length) this.logger.log(`Computed quality metrics for ${missing.length} ended codes`);
+  }
+
+  /** Recomputes an ended code's row; `removeIfOpen`: a code not (or no longer) ended loses its row. */
+  refresh(codeId: string, removeIfOpen = true): void {
+    const code = this.codes.findCode(codeId);
+    if (!code) return;
+    if (code.status !== 'ended') {
+      if (removeIfOpen) this.repo.deleteMetrics(codeId);
+      return;
+    }
+    this.repo.upsertMetrics(computeCodeMetrics(code, this.codes.entriesOf(codeId), this.protocol.current()));
+  }
+
+  // The listener runs inside the entry's request after its commit: a failure here must never fail the tap.
+  private refreshSafely(codeId: string, removeIfOpen: boolean): void {
+    try {
+      this.refresh(codeId, removeIfOpen);
+    } catch (err) {
+      this.logger.error(`Could not update quality metrics of code ${codeId}: ${(err as Error).message}`);
+    }
+  }
+}

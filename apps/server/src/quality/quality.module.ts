@@ -1,0 +1,15 @@
+import { Module } from '@nestjs/common';
+import { CodesModule } from '../codes/codes.module.js';
+import { ProtocolModule } from '../protocol/protocol.module.js';
+import { UsersModule } from '../users/users.module.js';
+import { QualityMetricsService } from './quality-metrics.service.js';
+import { QualityController } from './quality.controller.js';
+import { QualityRepository } from './quality.repository.js';
+import { QualityService } from './quality.service.js';
+
+@Module({
+  imports: [CodesModule, ProtocolModule, UsersModule],
+  controllers: [QualityController],
+  providers: [QualityRepository, QualityService, QualityMetricsService],
+})
+export class QualityModule {}

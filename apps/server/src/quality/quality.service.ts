@@ -1,0 +1,167 @@
+import { randomUUID } from 'node:crypto';
+import { ConflictException, ForbiddenException, Inject, Injectable, NotFoundException } from '@nestjs/common';
+import {
+  aggregateQuality,
+  buildFhirBundle,
+  evaluateTargets,
+  summarizeCode,
+  utsteinCsv,
+  utsteinRow,
+  type FhirBundle,
+  type QualityCodeDetail,
+  type QualityFilter,
+  type QualityListQuery,
+  type QualityListResponse,
+  type QualityReview,
+  type QualityReviewRequest,
+  type QualityStats,
+} from '@steadyhand/shared';
+import { AuditService } from '../audit/audit.service.js';
+import { verifyPassword } from '../auth/password.js';
+import type { SessionUser } from '../auth/session-user.js';
+import { CodesRepository } from '../codes/codes.repository.js';
+import { ProtocolService } from '../protocol/protocol.service.js';
+import { UsersRepository } from '../users/users.repository.js';
+import { QualityRepository } from './quality.repository.js';
+
+@Injectable()
+export class QualityService {
+  constructor(
+    @Inject(QualityRepository) private readonly repo: QualityRepository,
+    @Inject(CodesRepository) private readonly codes: CodesRepository,
+    @Inject(ProtocolService) private readonly protocol: ProtocolService,
+    @Inject(UsersRepository) private readonly users: UsersRepository,
+    @Inject(AuditService) private readonly audit: AuditService,
+  ) {}
+
+  list(query: QualityListQuery): QualityListResponse {
+    const { items, total } = this.repo.list(query);
+    return { items, total, page: query.page, pageSize: query.pageSize, units: this.repo.units() };
+  }
+
+  stats(filter: QualityFilter): QualityStats {
+    return aggregateQuality(this.repo.statsRows(filter));
+  }
+
+  detail(id: string): QualityCodeDetail {
+    const code = this.codes.findCode(id);
+    if (!code) throw new NotFoundException(`No code with id ${id}`);
+    const summary = summarizeCode({ code, entries: this.codes.entriesOf(id), settings: this.protocol.current() });
+    return {
+      code: {
+        id: code.id,
+        status: code.status,
+        category: code.category,
+        location: code.location,
+        unitId: code.unitId,
+        unitName: this.repo.unitName(code.unitId),
+        arrestAt: code.arrestAt,
+        endedAt: code.endedAt,
+        outcome: code.outcome,
+      },
+      summary,
+      targets: evaluateTargets(summary),
+      review: this.reviewOf(id),
+      signatures: this.repo.signaturesOf(id).map((s) => ({ printedName: s.printedName, meaning: s.meaning, signedAt: s.signedAt })),
+    };
+  }
+
+  private reviewOf(id: string): QualityReview {
+    const row = this.repo.review(id);
+    return {
+      notes: row?.notes ?? null,
+      debriefPoints: row?.debriefPoints ?? [],
+      teamDebriefNotes: this.codes.reviewDetails(id)?.debriefNotes ?? null,
+      reviewedBy: row?.reviewedBy ? { id: row.reviewedBy, displayName: row.reviewerName ?? '' } : null,
+      reviewedAt: row?.reviewedAt ?? null,
+      updatedAt: row?.updatedAt ?? null,
+    };
+  }
+
+  private endedCode(id: string) {
+    const code = this.codes.findCode(id);
+    if (!code) throw new NotFoundException(`No code with id ${id}`);
+    if (code.status !== 'ended') throw new ConflictException('The code has not ended: it is reviewed after it ends');
+    return code;
+  }
+
+  /** Notes and debrief points; a signed-off review is closed (a later change would not be what was signed). */
+  saveReview(user: SessionUser, id: string, body: QualityReviewRequest): QualityReview {
+    this.endedCode(id);
+    const before = this.reviewOf(id);
+    if (before.reviewedAt) throw new ConflictException('This review is signed off and closed');
+    const changes = {
+      ...(body.notes !== undefined ? { notes: body.notes } : {}),
+      ...(body.debriefPoints !== undefined ? { debriefPoints: body.debriefPoints } : {}),
+      updatedAt: new Date().toISOString(),
+    };
+    this.repo.saveReview(id, changes);
+    this.audit.record({
+      action: 'quality.review-saved',
+      userId: user.id,
+      username: user.username,
+      codeId: id,
+      detail: {
+        ...(body.notes !== undefined ? { notes: { from: before.notes, to: body.notes } } : {}),
+        ...(body.debriefPoints !== undefined ? { debriefPoints: { from: before.debriefPoints, to: body.debriefPoints } } : {}),
+      },
+    });
+    return this.reviewOf(id);
+  }
+
+  /** The reviewed-by sign-off, with the password typed again (as for the record's signatures). */
+  async signOff(user: SessionUser, id: string, password: string): Promise<QualityReview> {
+    this.endedCode(id);
+    if (this.reviewOf(id).reviewedAt) throw new ConflictException('This review is signed off already');
+    const row = this.users.findById(user.id);
+    if (!row || !(await verifyPassword(password, row.passwordHash))) {
+      this.audit.record({ action: 'quality.sign-off-failed', userId: user.id, username: user.username, codeId: id, detail: { reason: 'password does not match' } });
+      // 403, not 401: a mistyped password must not sign the person out of the page.
+      throw new ForbiddenException({ statusCode: 403, error: 'password', message: 'The password does not match. Nothing was signed.' });
+    }
+    // Checked again after the slow hash: another reviewer may have signed meanwhile.
+    if (this.reviewOf(id).reviewedAt) throw new ConflictException('This review is signed off already');
+    const now = new Date().toISOString();
+    this.repo.saveReview(id, { reviewedBy: user.id, reviewedAt: now, updatedAt: now });
+    this.audit.record({ action: 'quality.review-signed', userId: user.id, username: user.username, codeId: id, detail: { printedName: user.displayName, reviewedAt: now } });
+    return this.reviewOf(id);
+  }
+
+  utsteinCsv(user: SessionUser, filter: QualityFilter): string {
+    const ids = this.repo.codeIds(filter);
+    const settings = this.protocol.current();
+    const facility = this.repo.facility();
+    const units = new Map(this.repo.units().map((u) => [u.id, u.name]));
+    const rows = ids.flatMap((id) => {
+      const code = this.codes.findCode(id);
+      if (!code) return [];
+      const entries = this.codes.entriesOf(id);
+      const summary = summarizeCode({ code, entries, settings });
+      return [utsteinRow({ code, entries, summary, facility, unitName: code.unitId ? (units.get(code.unitId) ?? null) : null })];
+    });
+    this.audit.record({ action: 'quality.export-utstein', userId: user.id, username: user.username, detail: { filter, codes: rows.length } });
+    return utsteinCsv(rows);
+  }
+
+  fhirBundle(user: SessionUser, id: string): FhirBundle {
+    const code = this.codes.findCode(id);
+    if (!code) throw new NotFoundException(`No code with id ${id}`);
+    const signatures = this.repo.signaturesOf(id);
+    if (signatures.length === 0) throw new ConflictException('The record is not signed yet: the FHIR document is made from a signed record');
+    const entries = this.codes.entriesOf(id);
+    const settings = this.protocol.current();
+    const bundle = buildFhirBundle({
+      code,
+      entries,
+      summary: summarizeCode({ code, entries, settings }),
+      signatures,
+      facility: this.repo.facility(),
+      unitName: this.repo.unitName(code.unitId),
+      settings,
+      generatedAt: new Date().toISOString(),
+      newId: randomUUID,
+    });
+    this.audit.record({ action: 'quality.export-fhir', userId: user.id, username: user.username, codeId: id, detail: { bundleId: bundle.id, resources: bundle.entry.length } });
+    return bundle;
+  }
+}

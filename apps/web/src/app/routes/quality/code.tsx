@@ -1,0 +1,96 @@
+import { Box, Button, Heading, HStack, List, SimpleGrid, Stack, Text } from '@chakra-ui/react';
+import { SIGNATURE_MEANING_TEXT, type SignatureMeaning } from '@steadyhand/shared';
+import { Link as RouterLink, useParams } from 'react-router';
+import { ErrorMessage } from '../../../components/ui/error-message';
+import { PageSpinner } from '../../../components/ui/page-status';
+import { PageTitle } from '../../../components/ui/page-title';
+import { paths } from '../../../config/paths';
+import { useQualityCode } from '../../../features/quality/api/get-quality-code';
+import { QualityGate } from '../../../features/quality/components/quality-gate';
+import { ReviewPanel } from '../../../features/quality/components/review-panel';
+import { SummaryFacts } from '../../../features/quality/components/summary-facts';
+import { TargetList } from '../../../features/quality/components/target-list';
+import { formatDateTime } from '../../../features/quality/components/words';
+
+function QualityCode({ codeId }: { codeId: string }) {
+  const query = useQualityCode(codeId);
+  if (query.isPending) return <PageSpinner label="Loading the code…" />;
+  if (query.isError) return <ErrorMessage title="This code cannot be shown" message={query.error.message} />;
+  const { code, summary, targets, review, signatures } = query.data;
+  const where = [code.unitName, code.location].filter(Boolean).join(', ') || 'Location not recorded';
+
+  return (
+    <Stack gap="8">
+      <Stack gap="2">
+        <Button asChild variant="plain" alignSelf="start" px="0">
+          <RouterLink to={paths.quality.list.getHref()}>← All codes</RouterLink>
+        </Button>
+        <Heading as="h1" textStyle={{ base: '3xl', md: '4xl' }} data-testid="quality-code-heading">
+          {where}, {formatDateTime(code.arrestAt)}
+        </Heading>
+        <Text color="fg.muted">
+          {code.category === 'pediatric' ? 'Pediatric' : 'Adult'} code; {code.status === 'ended' ? `ended ${formatDateTime(code.endedAt)}` : 'still running'}.
+        </Text>
+      </Stack>
+
+      <Box as="section" aria-labelledby="summary-heading">
+        <Heading as="h2" id="summary-heading" textStyle="2xl" mb="4">
+          Summary from the record
+        </Heading>
+        <SummaryFacts summary={summary} />
+      </Box>
+
+      <Box as="section" aria-labelledby="targets-heading">
+        <Heading as="h2" id="targets-heading" textStyle="2xl" mb="4">
+          Targets
+        </Heading>
+        <TargetList targets={targets} />
+      </Box>
+
+      <SimpleGrid columns={{ base: 1, lg: 2 }} gap="8">
+        <ReviewPanel key={code.id} codeId={code.id} review={review} reviewable={code.status === 'ended'} />
+        <Stack gap="4" as="section" aria-labelledby="record-heading">
+          <Heading as="h2" id="record-heading" textStyle="2xl">
+            Signed record and export
+          </Heading>
+          {signatures.length > 0 ? (
+            <List.Root gap="1" ps="5">
+              {signatures.map((s) => (
+                <List.Item key={`${s.meaning}-${s.signedAt}`}>
+                  {SIGNATURE_MEANING_TEXT[s.meaning as SignatureMeaning] ?? s.meaning} {s.printedName}, {formatDateTime(s.signedAt)}
+                </List.Item>
+              ))}
+            </List.Root>
+          ) : (
+            <Text>The record is not signed yet. The FHIR document is made from a signed record.</Text>
+          )}
+          <HStack>
+            {signatures.length > 0 ? (
+              <Button asChild colorPalette="brand" size="lg">
+                <a href={`/api/quality/codes/${encodeURIComponent(code.id)}/fhir`} download data-testid="quality-export-fhir">
+                  FHIR document (JSON)
+                </a>
+              </Button>
+            ) : (
+              <Button colorPalette="brand" size="lg" disabled>
+                FHIR document (JSON)
+              </Button>
+            )}
+          </HStack>
+        </Stack>
+      </SimpleGrid>
+    </Stack>
+  );
+}
+
+export function Component() {
+  const { codeId = '' } = useParams();
+  return (
+    <>
+      <PageTitle title="Code review" />
+      <QualityGate>
+        <QualityCode codeId={codeId} />
+      </QualityGate>
+    </>
+  );
+}

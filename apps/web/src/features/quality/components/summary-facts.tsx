@@ -1,0 +1,36 @@
+import { DataList, SimpleGrid } from '@chakra-ui/react';
+import { SUMMARY_DEFINITIONS, type CodeSummary } from '@steadyhand/shared';
+import { formatDateTime, formatPercent, formatSeconds, OUTCOME_WORDS, RHYTHM_WORDS } from './words';
+
+/** The record's summary as the reviewer needs it: Utstein intervals, rhythm, ROSC, CPR quality. */
+export function SummaryFacts({ summary }: { summary: CodeSummary }) {
+  const facts: [string, string, string][] = [
+    ['Arrest recognised', formatDateTime(summary.times.arrestAt), SUMMARY_DEFINITIONS.arrestAt],
+    ['To first compressions', formatSeconds(summary.intervals.arrestToFirstCompressions), SUMMARY_DEFINITIONS.arrestToFirstCompressions],
+    ['To first rhythm check', formatSeconds(summary.intervals.arrestToFirstRhythmAnalysis), SUMMARY_DEFINITIONS.arrestToFirstRhythmAnalysis],
+    ['To first shock', formatSeconds(summary.intervals.arrestToFirstShock), SUMMARY_DEFINITIONS.arrestToFirstShock],
+    ['To first epinephrine', formatSeconds(summary.intervals.arrestToFirstEpinephrine), SUMMARY_DEFINITIONS.arrestToFirstEpinephrine],
+    ['To first ROSC', formatSeconds(summary.intervals.arrestToFirstRosc), SUMMARY_DEFINITIONS.arrestToFirstRosc],
+    ['Duration', formatSeconds(summary.durationSeconds), SUMMARY_DEFINITIONS.durationSeconds],
+    ['First rhythm', summary.firstRhythm ? RHYTHM_WORDS[summary.firstRhythm] : 'None recorded', SUMMARY_DEFINITIONS.firstRhythm],
+    ['Any ROSC / sustained', `${summary.anyRosc ? 'Yes' : 'No'} / ${summary.sustainedRosc ? 'Yes' : 'No'}`, SUMMARY_DEFINITIONS.sustainedRosc],
+    ['Outcome', summary.outcome ? OUTCOME_WORDS[summary.outcome] : '—', SUMMARY_DEFINITIONS.outcome],
+    ['Compression fraction', formatPercent(summary.compressionFraction), SUMMARY_DEFINITIONS.compressionFraction],
+    ['Longest pause', summary.longestPause ? `${Math.round(summary.longestPause.seconds)} s` : '—', SUMMARY_DEFINITIONS.longestPause],
+    ['Pauses over 10 s', String(summary.longPauses.length), SUMMARY_DEFINITIONS.longPauses],
+    ['Shocks', summary.shocks.map((s) => `${s.joules} J${s.synchronized ? ' sync' : ''}`).join(', ') || 'None', SUMMARY_DEFINITIONS.shocks],
+    ['Drugs', summary.drugTotals.map((d) => `${d.label} ${d.total} ${d.unit} (${d.doses})`).join('; ') || 'None', SUMMARY_DEFINITIONS.drugTotals],
+  ];
+  return (
+    <DataList.Root orientation="horizontal" size="lg" data-testid="quality-summary">
+      <SimpleGrid columns={{ base: 1, md: 2 }} gapX="8" gapY="3">
+        {facts.map(([label, value, definition]) => (
+          <DataList.Item key={label} title={definition}>
+            <DataList.ItemLabel minW="12rem">{label}</DataList.ItemLabel>
+            <DataList.ItemValue fontWeight="bold">{value}</DataList.ItemValue>
+          </DataList.Item>
+        ))}
+      </SimpleGrid>
+    </DataList.Root>
+  );
+}

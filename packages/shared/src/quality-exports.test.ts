@@ -1,0 +1,140 @@
+import { describe, expect, it } from 'vitest';
+import { histogram, quantileSummary, shareOf, COMPRESSION_FRACTION_EDGES } from './aggregate.js';
+import type { LogEntry } from './effective-log.js';
+import { buildFhirBundle } from './fhir-bundle.js';
+import { DEFAULT_PROTOCOL } from './protocol.js';
+import { aggregateQuality, type QualityMetricsRow } from './quality.js';
+import { summarizeCode } from './summary.js';
+import { csvField, UTSTEIN_CSV_COLUMNS, utsteinCsv, utsteinRow } from './utstein-csv.js';
+
+let nextId = 1;
+const uuid = () => `00000000-0000-4000-8000-${(nextId++).toString().padStart(12, '0')}`;
+const ARREST = '2026-03-04T07:42:10.000Z';
+const t = (s: number) => new Date(Date.parse(ARREST) + s * 1000).toISOString();
+type NoBase<T> = T extends unknown ? Omit<T, 'id' | 'at'> : never;
+const e = (s: number, fields: NoBase<LogEntry>): LogEntry => ({ id: uuid(), at: t(s), ...fields });
+
+describe('medians and interquartile ranges', () => {
+  it('uses linear interpolation between closest ranks (type 7): 1..10 gives 3.25 / 5.5 / 7.75', () => {
+    // Same as R quantile(1:10, c(.25,.5,.75)) and numpy.percentile: arithmetic check, no published source needed.
+    expect(quantileSummary([10, 9, 8, 7, 6, 5, 4, 3, 2, 1])).toEqual({ n: 10, median: 5.5, q1: 3.25, q3: 7.75 });
+    expect(quantileSummary([60, null, 120, 90])).toEqual({ n: 3, median: 90, q1: 75, q3: 105 });
+    expect(quantileSummary([])).toEqual({ n: 0, median: null, q1: null, q3: null });
+  });
+
+  it('shares leave out codes a target does not apply to', () => {
+    expect(shareOf([true, false, null, true])).toEqual({ applicable: 3, met: 2, share: 2 / 3 });
+    expect(shareOf([null])).toEqual({ applicable: 0, met: 0, share: null });
+  });
+
+  it('bins compression fractions with the top edge included', () => {
+    const bins = histogram([0.5, 0.6, 0.78, 0.8, 1], COMPRESSION_FRACTION_EDGES, (a, b) => `${a}-${b}`);
+    expect(bins.map((b) => b.count)).toEqual([1, 1, 1, 1, 1]);
+  });
+
+  it('groups by month and unit, with target shares', () => {
+    const row = (arrestAt: string, unitId: string | null, over: Partial<QualityMetricsRow>): QualityMetricsRow => ({
+      arrestAt, unitId, unitName: unitId ? `Unit ${unitId}` : null, durationSeconds: 600, toCompressionsSeconds: 10,
+      firstRhythm: 'vf', anyRosc: false, toFirstShockSeconds: 100, toFirstEpinephrineSeconds: null, compressionFraction: 0.85, maxPreShockPauseSeconds: 5, ...over,
+    });
+    const stats = aggregateQuality([
+      row('2026-03-01T10:00:00.000Z', 'a', {}),
+      row('2026-03-20T10:00:00.000Z', 'b', { toFirstShockSeconds: 200 }),
+      row('2026-04-02T10:00:00.000Z', 'a', { firstRhythm: 'asystole', toFirstShockSeconds: null, toFirstEpinephrineSeconds: 240 }),
+    ]);
+    expect(stats.byMonth.map((m) => [m.key, m.codes])).toEqual([['2026-03', 2], ['2026-04', 1]]);
+    expect(stats.byMonth[0]?.targets['time-to-shock']).toEqual({ applicable: 2, met: 1, share: 0.5 });
+    expect(stats.byMonth[0]?.intervals.toFirstShockSeconds.median).toBe(150);
+    expect(stats.byUnit.map((u) => [u.label, u.codes])).toEqual([['Unit a', 2], ['Unit b', 1]]);
+    expect(stats.overall.targets['time-to-epinephrine']).toEqual({ applicable: 1, met: 1, share: 1 });
+  });
+});
+
+function sampleRecord() {
+  const entries: LogEntry[] = [
+    e(15, { kind: 'cpr', action: 'start' }),
+    e(88, { kind: 'cpr', action: 'stop', reason: 'rhythm-check' }),
+    e(90, { kind: 'rhythm', rhythm: 'vf', pulse: false }),
+    e(102, { kind: 'shock', joules: 200, synchronized: false }),
+    e(104, { kind: 'cpr', action: 'start' }),
+    e(200, { kind: 'airway', device: 'endotracheal', confirmation: 'waveform-capnography' }),
+    e(210, { kind: 'access', route: 'io' }),
+    e(240, { kind: 'etco2', mmHg: 14 }),
+    e(345, { kind: 'drug', drug: 'epinephrine', dose: 1, unit: 'mg', route: 'io' }),
+    e(400, { kind: 'drug', drug: 'amiodarone', dose: 300, unit: 'mg', route: 'io' }),
+    e(420, { kind: 'drug', drug: 'Sodium bicarbonate 8.4%', dose: 50, unit: 'meq', route: 'iv' }),
+    e(500, { kind: 'rosc' }),
+    e(1500, { kind: 'end', outcome: 'sustained-rosc' }),
+  ];
+  const code = { id: uuid(), category: 'adult' as const, location: 'Bed 12, "window"', patient: null, arrestAt: ARREST, endedAt: t(1500) };
+  const summary = summarizeCode({ code: { ...code, weightKg: null }, entries, settings: DEFAULT_PROTOCOL });
+  return { code, entries, summary };
+}
+
+describe('Utstein CSV', () => {
+  it('writes the documented columns in order, one row per code', () => {
+    const { code, entries, summary } = sampleRecord();
+    const row = utsteinRow({ code, entries, summary, unitName: '4 West Medical', facility: 'Harbourview General Hospital' });
+    const csv = utsteinCsv([row, row]);
+    const lines = csv.trimEnd().split('\r\n');
+    expect(lines).toHaveLength(3);
+    expect(lines[0]).toBe(UTSTEIN_CSV_COLUMNS.map((c) => c.name).join(','));
+    expect(Object.keys(row)).toEqual(UTSTEIN_CSV_COLUMNS.map((c) => c.name));
+    expect(row).toMatchObject({
+      arrest_to_first_defibrillation_s: '102',
+      arrest_to_first_vasopressor_s: '345',
+      first_documented_rhythm: 'VF',
+      first_rhythm_shockable: 'yes',
+      advanced_airway: 'endotracheal',
+      vascular_access: 'io',
+      any_rosc: 'yes',
+      event_outcome: 'sustained-rosc',
+      patient_sex: 'unknown',
+    });
+    expect(lines[1]).toContain('"Bed 12, ""window"""');
+  });
+
+  it('escapes commas, quotes and line breaks, and defuses spreadsheet formulas', () => {
+    expect(csvField('plain')).toBe('plain');
+    expect(csvField('a,b')).toBe('"a,b"');
+    expect(csvField('say "hi"\nbye')).toBe('"say ""hi""\nbye"');
+    expect(csvField('=HYPERLINK("x")')).toBe(`"'=HYPERLINK(""x"")"`);
+    expect(csvField('-12')).toBe('-12');
+  });
+});
+
+describe('FHIR document bundle', () => {
+  it('puts the Composition first, references every resource and uses the sheet\'s codes', () => {
+    const { code, entries, summary } = sampleRecord();
+    let n = 0;
+    const bundle = buildFhirBundle({
+      code, entries, summary, settings: DEFAULT_PROTOCOL, facility: 'Harbourview General Hospital', unitName: '4 West Medical',
+      signatures: [{ printedName: 'Maren Holt, RN', meaning: 'recorded-by', signedAt: t(1600), serverSignature: 'ab-_' }],
+      generatedAt: t(1700),
+      newId: () => `10000000-0000-4000-8000-${String(++n).padStart(12, '0')}`,
+    });
+    expect(bundle.type).toBe('document');
+    const resources = bundle.entry.map((x) => x.resource);
+    expect(resources[0]?.resourceType).toBe('Composition');
+    expect(resources[0]?.status).toBe('preliminary'); // one signature of two
+    const of = (type: string) => resources.filter((r) => r.resourceType === type);
+    expect(JSON.stringify(of('Condition'))).toContain('410429000');
+    expect(of('Procedure')).toHaveLength(2); // CPR and one shock
+    expect(JSON.stringify(of('Procedure'))).toContain('89666000');
+    expect(JSON.stringify(of('Procedure'))).toContain('426220008');
+    const meds = of('MedicationAdministration') as unknown as { medicationCodeableConcept: { coding?: { code: string }[] }; dosage: { dose: { code: string; system: string } } }[];
+    expect(meds.map((m) => m.medicationCodeableConcept.coding?.[0]?.code)).toEqual(['3992', '703', '36676']);
+    expect(meds.map((m) => m.dosage.dose.code)).toEqual(['mg', 'mg', 'meq']);
+    expect(meds.every((m) => m.dosage.dose.system === 'http://unitsofmeasure.org')).toBe(true);
+    expect(JSON.stringify(of('Observation'))).toContain('"code":"mm[Hg]"');
+    expect(JSON.stringify(of('Observation'))).toContain('19891-1');
+    const prov = of('Provenance')[0] as unknown as { target: { reference: string }[]; signature: { data: string }[] };
+    expect(prov.target[0]?.reference).toBe(bundle.entry[0]?.fullUrl);
+    expect(prov.signature[0]?.data).toBe('ab+/');
+    // Every reference inside the bundle resolves to an entry of it.
+    const urls = new Set(bundle.entry.map((x) => x.fullUrl));
+    const refs = [...JSON.stringify(bundle).matchAll(/"reference":"([^"]+)"/g)].map((m) => m[1]);
+    expect(refs.length).toBeGreaterThan(10);
+    for (const ref of refs) expect(urls.has(ref as string), ref).toBe(true);
+  });
+});
