@@ -5,6 +5,7 @@ import type { SessionUser } from './session-user.js';
 
 export const IS_PUBLIC = 'steadyhand:public';
 export const ROLES_KEY = 'steadyhand:roles';
+export const DURING_PASSWORD_CHANGE = 'steadyhand:during-password-change';
 
 /** Open to anyone, signed in or not. */
 export const Public = (): MethodDecorator & ClassDecorator => SetMetadata(IS_PUBLIC, true);
@@ -16,6 +17,9 @@ export const Public = (): MethodDecorator & ClassDecorator => SetMetadata(IS_PUB
  */
 export const Roles = (...roles: [Role | 'any', ...(Role | 'any')[]]): MethodDecorator & ClassDecorator =>
   SetMetadata(ROLES_KEY, roles);
+
+/** Still open to someone who must change their password first (who am I, change my password). */
+export const AllowDuringPasswordChange = (): MethodDecorator => SetMetadata(DURING_PASSWORD_CHANGE, true);
 
 export const CurrentUser = createParamDecorator((_data: unknown, ctx: ExecutionContext): SessionUser => {
   const req = ctx.switchToHttp().getRequest<Request>();

@@ -15,6 +15,10 @@ declare module 'express-session' {
     /** When the person signed in (epoch ms), for the absolute timeout. */
     signedInAt?: number;
     passport?: { user?: string };
+    /** The password was right; the sign-in waits for the second factor (nobody is signed in yet). */
+    pendingSecondFactor?: { userId: string; since: number };
+    /** When this session passed the second factor (epoch ms); admin routes need it. */
+    secondFactorAt?: number;
   }
 }
 

@@ -59,6 +59,12 @@ export class SessionService implements OnModuleDestroy {
     this.ended(this.store.destroyForUser(userId, exceptSid));
   }
 
+  /** Ends every session of a disabled person and tells live connections to drop them, whatever session they came on. */
+  userDisabled(userId: string): void {
+    this.endAllForUser(userId);
+    this.events.emit('user-disabled', userId);
+  }
+
   onModuleDestroy(): void {
     clearInterval(this.pruneTimer);
     this.events.removeAllListeners();

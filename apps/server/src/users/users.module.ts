@@ -2,5 +2,5 @@ import { Module } from '@nestjs/common';
 import { UsersRepository } from './users.repository.js';
 import { UsersService } from './users.service.js';
 
-@Module({ providers: [UsersRepository, UsersService], exports: [UsersService] })
+@Module({ providers: [UsersRepository, UsersService], exports: [UsersService, UsersRepository] })
 export class UsersModule {}

@@ -1,6 +1,6 @@
 import { Inject, Injectable } from '@nestjs/common';
 import type { Role } from '@steadyhand/shared';
-import { count, eq } from 'drizzle-orm';
+import { and, asc, count, eq, isNull, ne } from 'drizzle-orm';
 import { DB } from '../db/database.module.js';
 import type { Db } from '../db/database.js';
 import { userRoles, users } from '../db/schema/index.js';
@@ -12,6 +12,7 @@ export interface UserRow {
   passwordHash: string;
   mustChangePassword: boolean;
   disabledAt: string | null;
+  createdAt: string;
   roles: Role[];
 }
 
@@ -39,7 +40,7 @@ export class UsersRepository {
       .sort();
   }
 
-  insert(user: { id: string; username: string; displayName: string; passwordHash: string; roles: Role[] }, now: string): void {
+  insert(user: { id: string; username: string; displayName: string; passwordHash: string; roles: Role[]; mustChangePassword?: boolean }, now: string): void {
     this.db.transaction((tx) => {
       tx.insert(users)
         .values({
@@ -47,12 +48,49 @@ export class UsersRepository {
           username: user.username,
           displayName: user.displayName,
           passwordHash: user.passwordHash,
+          mustChangePassword: user.mustChangePassword ?? false,
           createdAt: now,
           updatedAt: now,
         })
         .run();
       for (const role of new Set(user.roles)) tx.insert(userRoles).values({ userId: user.id, role }).run();
     });
+  }
+
+  list(): UserRow[] {
+    const roleRows = this.db.select().from(userRoles).all();
+    return this.db
+      .select()
+      .from(users)
+      .orderBy(asc(users.displayName))
+      .all()
+      .map((u) => ({ ...u, roles: roleRows.filter((r) => r.userId === u.id).map((r) => r.role).sort() }));
+  }
+
+  update(id: string, values: Partial<{ displayName: string; passwordHash: string; mustChangePassword: boolean; disabledAt: string | null }>): void {
+    this.db.update(users).set({ ...values, updatedAt: new Date().toISOString() }).where(eq(users.id, id)).run();
+  }
+
+  setRoles(id: string, roles: Role[]): void {
+    this.db.transaction((tx) => {
+      tx.delete(userRoles).where(eq(userRoles.userId, id)).run();
+      for (const role of new Set(roles)) tx.insert(userRoles).values({ userId: id, role }).run();
+      tx.update(users).set({ updatedAt: new Date().toISOString() }).where(eq(users.id, id)).run();
+    });
+  }
+
+  /** Enabled accounts holding the admin role, leaving one person out. */
+  countEnabledAdmins(exceptUserId?: string): number {
+    const conditions = [eq(userRoles.role, 'admin'), isNull(users.disabledAt)];
+    if (exceptUserId) conditions.push(ne(users.id, exceptUserId));
+    return (
+      this.db
+        .select({ n: count() })
+        .from(users)
+        .innerJoin(userRoles, eq(userRoles.userId, users.id))
+        .where(and(...conditions))
+        .get()?.n ?? 0
+    );
   }
 
   count(): number {

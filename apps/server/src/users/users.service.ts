@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import { ConflictException, Inject, Injectable } from '@nestjs/common';
 import { newPasswordSchema, usernameSchema, type PublicUser, type Role } from '@steadyhand/shared';
+import { assertNotCommonPassword } from '../auth/common-passwords.js';
 import { hashPassword } from '../auth/password.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { AuditService } from '../audit/audit.service.js';
@@ -17,6 +18,10 @@ export class UsersService {
     @Inject(AuditService) private readonly audit: AuditService,
   ) {}
 
+  findById(id: string): UserRow | undefined {
+    return this.repo.findById(id);
+  }
+
   findByUsername(username: string): UserRow | undefined {
     return this.repo.findByUsername(username);
   }
@@ -29,20 +34,30 @@ export class UsersService {
   }
 
   async create(
-    input: { username: string; displayName: string; password: string; roles: Role[] },
+    input: { username: string; displayName: string; password: string; roles: Role[]; mustChangePassword?: boolean },
     actor: { userId: string | null; username: string | null },
   ): Promise<PublicUser> {
     const username = usernameSchema.parse(input.username);
     const password = newPasswordSchema.parse(input.password);
+    assertNotCommonPassword(password);
     if (this.repo.findByUsername(username)) throw new ConflictException(`A user named ${username} already exists`);
     const id = randomUUID();
     const passwordHash = await hashPassword(password);
-    this.repo.insert({ id, username, displayName: input.displayName.trim(), passwordHash, roles: input.roles }, new Date().toISOString());
+    this.repo.insert(
+      { id, username, displayName: input.displayName.trim(), passwordHash, roles: input.roles, mustChangePassword: input.mustChangePassword },
+      new Date().toISOString(),
+    );
     this.audit.record({ action: 'user.created', userId: actor.userId, username: actor.username, detail: { id, username, roles: input.roles } });
     return { id, username, displayName: input.displayName.trim(), roles: [...new Set(input.roles)].sort() };
   }
 
   count(): number {
     return this.repo.count();
+  }
+
+  /** Sets a new password (already checked by the caller); `mustChange` makes them choose another at next sign-in. */
+  async setPassword(id: string, password: string, mustChange: boolean): Promise<void> {
+    assertNotCommonPassword(password);
+    this.repo.update(id, { passwordHash: await hashPassword(password), mustChangePassword: mustChange });
   }
 }

@@ -1,4 +1,5 @@
 import { mkdirSync } from 'node:fs';
+import { createRequire } from 'node:module';
 import path from 'node:path';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 import { DEMO_PASSWORD, REPO_ROOT } from './server.js';
@@ -36,6 +37,59 @@ export async function signInAs(page: Page, username: string, password = DEMO_PAS
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.getByTestId('home-heading').waitFor();
+}
+
+// otplib is the server's dependency; the tests compute codes with it exactly as a phone would.
+const otplib = createRequire(path.join(REPO_ROOT, 'apps/server/package.json'))('otplib') as {
+  generate(options: { secret: string; epoch?: number }): Promise<string>;
+};
+/** Authenticator secrets enrolled by the tests, per server and person, with the last time step used. */
+const authenticators = new Map<string, { secret: string; lastStep: number }>();
+
+/** A code as the phone would show it; the server takes each 30-second step once, so wait for a fresh one if needed. */
+export async function authenticatorCode(page: Page, username: string): Promise<string> {
+  const auth = authenticators.get(`${new URL(page.url()).origin}|${username}`);
+  if (!auth) throw new Error(`No authenticator enrolled by the tests for ${username}`);
+  const now = Math.floor(Date.now() / 30_000);
+  const step = Math.max(now, auth.lastStep + 1);
+  // The server accepts one step ahead of its clock; further ahead, wait for time to catch up.
+  if (step > now + 1) await page.waitForTimeout((step - 1) * 30_000 - Date.now() + 100);
+  auth.lastStep = step;
+  return otplib.generate({ secret: auth.secret, epoch: step * 30 });
+}
+
+/** Sets up the authenticator on the enrolment page with the secret it shows in text; returns the recovery codes. */
+export async function enrolAuthenticator(page: Page, username: string): Promise<string[]> {
+  if (!(await page.getByTestId('totp-secret').isVisible())) await page.getByRole('button', { name: 'Set up an authenticator' }).click();
+  const secret = await page.getByTestId('totp-secret').getAttribute('data-secret');
+  if (!secret) throw new Error('The enrolment page shows no secret');
+  authenticators.set(`${new URL(page.url()).origin}|${username}`, { secret, lastStep: 0 });
+  await page.getByLabel('Code from the app').fill(await authenticatorCode(page, username));
+  await page.getByRole('button', { name: 'Turn on' }).click();
+  await page.getByTestId('recovery-codes').waitFor();
+  return page.getByTestId('recovery-codes').locator('li').allInnerTexts();
+}
+
+/**
+ * Signs in an admin so the admin pages open: the password, then the authenticator code when one
+ * is set up; without one, the set-up the admin pages ask for first (as a new admin would).
+ */
+export async function signInAsAdmin(page: Page, username = 'sofia.delacroix', password = DEMO_PASSWORD): Promise<void> {
+  await page.goto('/sign-in');
+  await page.getByLabel('Username').fill(username);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  if (authenticators.has(`${new URL(page.url()).origin}|${username}`)) {
+    await page.getByLabel('Authenticator code').fill(await authenticatorCode(page, username));
+    await page.getByRole('button', { name: 'Confirm' }).click();
+    await page.getByTestId('home-heading').waitFor();
+    return;
+  }
+  await page.getByTestId('home-heading').waitFor();
+  await page.goto('/account/second-factor?next=/admin');
+  await enrolAuthenticator(page, username);
+  await page.getByRole('button', { name: 'I have saved them' }).click();
+  await page.getByTestId('admin-heading').waitFor();
 }
 
 export async function screenshot(page: Page, name: string): Promise<string> {

@@ -35,7 +35,7 @@ const CSRF_HEADER = 'x-csrf-token';
 /** Auth routes answer 401 as part of their job; they never trigger the sign-in redirect. */
 const AUTH_PREFIX = '/api/auth/';
 /** Signing in or out starts a new session, and with it a new CSRF token. */
-const SESSION_CHANGING_PATHS = new Set(['/api/auth/login', '/api/auth/logout']);
+const SESSION_CHANGING_PATHS = new Set(['/api/auth/login', '/api/auth/logout', '/api/auth/totp']);
 
 let csrfToken: Promise<string> | null = null;
 let onUnauthorized: (() => void) | null = null;

@@ -1,5 +1,8 @@
-import { Outlet } from 'react-router';
+import { Button } from '@chakra-ui/react';
+import { Link as RouterLink, Outlet } from 'react-router';
 import { AppShell } from '../../components/layouts/app-shell';
+import { paths } from '../../config/paths';
+import { AccountGate } from '../../features/auth/components/account-gate';
 import { RequireSignedIn } from '../../features/auth/components/require-signed-in';
 import { SignOutButton, SignOutNotice } from '../../features/auth/components/sign-out-control';
 import { useCurrentUser } from '../../features/auth/hooks/use-current-user';
@@ -20,10 +23,19 @@ function SignedInFrame() {
   return (
     <AppShell
       userName={user.displayName}
-      actions={<SignOutButton state={signOut} />}
+      actions={
+        <>
+          <Button asChild variant="ghost" color="fg.header" _hover={{ bg: 'ink.700' }}>
+            <RouterLink to={paths.account.home.getHref()}>My account</RouterLink>
+          </Button>
+          <SignOutButton state={signOut} />
+        </>
+      }
       notice={<SignOutNotice state={signOut} />}
     >
-      <Outlet />
+      <AccountGate>
+        <Outlet />
+      </AccountGate>
     </AppShell>
   );
 }

@@ -1,23 +1,52 @@
-import { publicUserSchema, type LoginRequest, type PublicUser } from '@steadyhand/shared';
-import { useMutation, useQueryClient } from '@tanstack/react-query';
-import { z } from 'zod';
+import { loginResponseSchema, type LoginRequest, type LoginResponse, type PublicUser, type SecondFactorRequest } from '@steadyhand/shared';
+import { useMutation, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
 import { meQueryKey } from './get-me';
 
-const loginResponseSchema = z.object({ user: publicUserSchema });
-
-export async function login(input: LoginRequest): Promise<PublicUser> {
-  return loginResponseSchema.parse(await api.post('/api/auth/login', input)).user;
+export async function login(input: LoginRequest): Promise<LoginResponse> {
+  return loginResponseSchema.parse(await api.post('/api/auth/login', input));
 }
 
-export function useLogin({ onSuccess }: { onSuccess?: (user: PublicUser) => void } = {}) {
+const secondFactorResponseSchema = loginResponseSchema.pick({ user: true });
+
+/** The second step of a sign-in (or a step-up for the admin pages): a code or a recovery code. */
+export async function passSecondFactor(input: SecondFactorRequest): Promise<PublicUser> {
+  return secondFactorResponseSchema.parse(await api.post('/api/auth/totp', input)).user;
+}
+
+function signedIn(queryClient: QueryClient, user: PublicUser) {
+  // A shared tablet may change hands: nothing cached for the last person may show to the next.
+  queryClient.clear();
+  queryClient.setQueryData(meQueryKey, user);
+  // The full answer (must change password, second factor) comes from /api/auth/me.
+  void queryClient.invalidateQueries({ queryKey: meQueryKey });
+}
+
+export function useLogin({
+  onSuccess,
+  onSecondFactor,
+}: { onSuccess?: (user: PublicUser) => void; onSecondFactor?: (user: PublicUser) => void } = {}) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: login,
-    onSuccess: (user) => {
-      // A shared tablet may change hands: nothing cached for the last person may show to the next.
-      queryClient.clear();
-      queryClient.setQueryData(meQueryKey, user);
+    onSuccess: ({ user, secondFactor }) => {
+      if (secondFactor === 'required') {
+        onSecondFactor?.(user);
+        return;
+      }
+      signedIn(queryClient, user);
+      onSuccess?.(user);
+    },
+  });
+}
+
+export function useSecondFactor({ onSuccess, keepCache = false }: { onSuccess?: (user: PublicUser) => void; keepCache?: boolean } = {}) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: passSecondFactor,
+    onSuccess: async (user) => {
+      if (keepCache) await queryClient.invalidateQueries({ queryKey: meQueryKey });
+      else signedIn(queryClient, user);
       onSuccess?.(user);
     },
   });

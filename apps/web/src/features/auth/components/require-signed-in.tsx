@@ -11,7 +11,10 @@ export function RequireSignedIn({ children }: { children: ReactNode }) {
   const location = useLocation();
   const me = useMe();
 
-  if (me.isPending) return <PageSpinner label="Checking your sign-in…" />;
+  // Right after sign-in only the short answer is cached; wait for the full one (password, second factor).
+  if (me.isPending || (me.data && me.data.mustChangePassword === undefined && me.isFetching)) {
+    return <PageSpinner label="Checking your sign-in…" />;
+  }
 
   if (me.isError) {
     return (

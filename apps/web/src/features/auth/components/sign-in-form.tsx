@@ -1,10 +1,11 @@
 import { Button, Field, Input, Stack } from '@chakra-ui/react';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { loginRequestSchema, type LoginRequest, type PublicUser } from '@steadyhand/shared';
-import { useCallback, type ReactNode } from 'react';
+import { useCallback, useState, type ReactNode } from 'react';
 import { useForm } from 'react-hook-form';
 import { ErrorMessage } from '../../../components/ui/error-message';
 import { useLogin } from '../api/login';
+import { SecondFactorForm } from './second-factor-form';
 import { signInErrorMessage } from './sign-in-messages';
 
 interface SignInFormProps {
@@ -24,7 +25,9 @@ export function SignInForm({ onSignedIn, renderHelp }: SignInFormProps) {
     resolver: zodResolver(loginRequestSchema),
     defaultValues: { username: '', password: '' },
   });
-  const loginMutation = useLogin({ onSuccess: onSignedIn });
+  // Set when the password was right and the account asks for its second factor.
+  const [awaitingCode, setAwaitingCode] = useState(false);
+  const loginMutation = useLogin({ onSuccess: onSignedIn, onSecondFactor: () => setAwaitingCode(true) });
 
   const fillUsername = useCallback(
     (username: string) => {
@@ -37,6 +40,8 @@ export function SignInForm({ onSignedIn, renderHelp }: SignInFormProps) {
   const onSubmit = handleSubmit((values) => {
     loginMutation.mutate(values);
   });
+
+  if (awaitingCode) return <SecondFactorForm onDone={onSignedIn} />;
 
   return (
     <Stack gap="8">

@@ -1,10 +1,10 @@
-import type { PublicUser } from '@steadyhand/shared';
+import type { MeUser } from '@steadyhand/shared';
 import { createContext, use } from 'react';
 
 /** Set by the signed-in guard; everything under it may assume a user. */
-export const CurrentUserContext = createContext<PublicUser | null>(null);
+export const CurrentUserContext = createContext<MeUser | null>(null);
 
-export function useCurrentUser(): PublicUser {
+export function useCurrentUser(): MeUser {
   const user = use(CurrentUserContext);
   if (!user) throw new Error('useCurrentUser is only for pages inside the signed-in area');
   return user;
