@@ -1,4 +1,6 @@
 import { Module, type DynamicModule } from '@nestjs/common';
+import { AdminModule } from './admin/admin.module.js';
+import { AttachmentsModule } from './attachments/attachments.module.js';
 import { AuditModule } from './audit/audit.module.js';
 import { AuthModule } from './auth/auth.module.js';
 import { CodesModule } from './codes/codes.module.js';
@@ -8,7 +10,11 @@ import { DatabaseModule } from './db/database.module.js';
 import type { DatabaseHandle } from './db/database.js';
 import { DemoModule } from './demo/demo.module.js';
 import { HealthModule } from './health/health.module.js';
+import { MailModule } from './mail/mail.module.js';
+import { PharmacyModule } from './pharmacy/pharmacy.module.js';
 import { ProtocolModule } from './protocol/protocol.module.js';
+import { QualityModule } from './quality/quality.module.js';
+import { RecordsModule } from './records/records.module.js';
 import { UsersModule } from './users/users.module.js';
 
 @Module({})
@@ -20,12 +26,18 @@ export class AppModule {
         ConfigModule.forConfig(config),
         DatabaseModule.forHandle(database),
         AuditModule,
+        MailModule,
         UsersModule,
         AuthModule,
+        AdminModule,
         HealthModule,
         DemoModule,
         ProtocolModule,
         CodesModule,
+        AttachmentsModule,
+        RecordsModule,
+        QualityModule,
+        PharmacyModule,
       ],
     };
   }

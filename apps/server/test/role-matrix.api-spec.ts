@@ -49,7 +49,11 @@ describe('role matrix: every route for every role', () => {
         }
         const body = typeof rule.body === 'function' ? rule.body() : rule.body;
         const call = agent[method.toLowerCase() as 'get' | 'post' | 'put' | 'patch' | 'delete'](path).set('x-csrf-token', csrf);
-        const res = await (body === undefined ? call : call.send(body as object));
+        const res = await (rule.attach
+          ? call.attach(rule.attach.field, rule.attach.content, rule.attach.filename)
+          : body === undefined
+            ? call
+            : call.send(body as object));
 
         const expectAllowed =
           rule.allowed === 'public' || (caller !== 'anonymous' && (rule.allowed === 'any' || rule.allowed.includes(caller)));
@@ -61,6 +65,7 @@ describe('role matrix: every route for every role', () => {
           expect(res.status, label).toBe(caller === 'anonymous' ? 401 : 403);
         }
       }
-    });
+      // Rows that sign in afresh for each role hash a password each time (scrypt, on purpose slow).
+    }, rule.endsSession ? 180_000 : 60_000);
   }
 });

@@ -9,3 +9,7 @@ export * from './dosing.js';
 export * from './summary.js';
 export * from './live-state.js';
 export * from './clock.js';
+export * from './admin.js';
+export * from './records.js';
+export * from './quality.js';
+export * from './reconciliation.js';

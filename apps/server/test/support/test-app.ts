@@ -7,6 +7,7 @@ import request from 'supertest';
 import { createApp, type CreatedApp } from '../../src/app.factory.js';
 import { loadConfig, type AppConfig } from '../../src/config/config.js';
 import { UsersService } from '../../src/users/users.service.js';
+import { passSecondFactor } from './second-factor.js';
 
 export const TEST_PASSWORD = 'correct horse battery staple';
 
@@ -63,6 +64,8 @@ export async function csrfFor(agent: ReturnType<typeof request.agent>): Promise<
 export async function signIn(app: TestApp, username: string, password = TEST_PASSWORD): Promise<SignedInAgent> {
   const agent = request.agent(app.baseUrl);
   const before = await csrfFor(agent);
-  await agent.post('/api/auth/login').set('x-csrf-token', before).send({ username, password }).expect(200);
+  const login = await agent.post('/api/auth/login').set('x-csrf-token', before).send({ username, password }).expect(200);
+  // Admins need the second factor for admin routes: enrol it, or pass it, so the agent is fully signed in.
+  await passSecondFactor(app, username, agent, await csrfFor(agent), login.body as { user: { roles: string[] }; secondFactor?: string });
   return { agent, csrf: await csrfFor(agent) };
 }

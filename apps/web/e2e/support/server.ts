@@ -27,7 +27,7 @@ export interface RunningServer {
   restart(): Promise<void>;
 }
 
-async function waitForHealth(baseUrl: string, child: ChildProcess, timeoutMs = 30_000): Promise<void> {
+async function waitForHealth(baseUrl: string, child: ChildProcess, timeoutMs = 90_000): Promise<void> {
   const deadline = Date.now() + timeoutMs;
   while (Date.now() < deadline) {
     if (child.exitCode !== null) throw new Error(`server exited with code ${child.exitCode}`);
@@ -46,13 +46,14 @@ async function waitForHealth(baseUrl: string, child: ChildProcess, timeoutMs = 3
 export async function startServer(env: Record<string, string> = {}): Promise<RunningServer> {
   const dataDir = mkdtempSync(path.join(tmpdir(), 'steadyhand-e2e-'));
   const port = await freePort();
+  const smtpPort = await freePort();
   const baseUrl = `http://127.0.0.1:${port}`;
   let child: ChildProcess;
   let output = '';
   const launch = async () => {
     child = spawn(process.execPath, [path.join(REPO_ROOT, 'apps/server/dist/main.js')], {
       cwd: REPO_ROOT,
-      env: { ...process.env, DATA_DIR: dataDir, PORT: String(port), HOST: '127.0.0.1', STEADYHAND_DEMO: '1', LOG_LEVEL: 'warn', PUBLIC_ORIGIN: baseUrl, ...env },
+      env: { ...process.env, DATA_DIR: dataDir, PORT: String(port), HOST: '127.0.0.1', STEADYHAND_DEMO: '1', LOG_LEVEL: 'warn', PUBLIC_ORIGIN: baseUrl, FAKE_SMTP: '1', SMTP_PORT: String(smtpPort), ...env },
       stdio: ['ignore', 'pipe', 'pipe'],
     });
     child.stdout?.on('data', (d: Buffer) => (output += d.toString()));

@@ -31,6 +31,56 @@ export const routes: RouteObject[] = [
             path: paths.codes.record.path,
             lazy: () => import('./routes/codes/record'),
           },
+          {
+            path: paths.admin.protocol.path,
+            lazy: () => import('./routes/admin/protocol'),
+          },
+          {
+            path: paths.admin.area.path,
+            lazy: () => import('./routes/admin/admin-area'),
+            children: [
+              { path: paths.admin.people.path, lazy: () => import('./routes/admin/people') },
+              { path: paths.admin.places.path, lazy: () => import('./routes/admin/places') },
+              { path: paths.admin.sessions.path, lazy: () => import('./routes/admin/sessions') },
+              { path: paths.admin.audit.path, lazy: () => import('./routes/admin/audit') },
+            ],
+          },
+          {
+            path: paths.account.home.path,
+            lazy: () => import('./routes/account/account'),
+          },
+          {
+            path: paths.account.password.path,
+            lazy: () => import('./routes/account/password'),
+          },
+          {
+            path: paths.account.secondFactor.path,
+            lazy: () => import('./routes/account/second-factor'),
+          },
+          {
+            path: paths.pharmacy.worklist.path,
+            lazy: () => import('./routes/pharmacy/worklist'),
+          },
+          {
+            path: paths.pharmacy.code.path,
+            lazy: () => import('./routes/pharmacy/code'),
+          },
+          {
+            path: paths.pharmacy.trays.path,
+            lazy: () => import('./routes/pharmacy/trays'),
+          },
+          {
+            path: paths.quality.list.path,
+            lazy: () => import('./routes/quality/list'),
+          },
+          {
+            path: paths.quality.stats.path,
+            lazy: () => import('./routes/quality/stats'),
+          },
+          {
+            path: paths.quality.code.path,
+            lazy: () => import('./routes/quality/code'),
+          },
         ],
       },
       {

@@ -10,10 +10,79 @@ export const paths = {
     getHref: (next?: string | null) =>
       next && next !== '/' ? `/sign-in?next=${encodeURIComponent(next)}` : '/sign-in',
   },
+  admin: {
+    protocol: {
+      path: '/admin/protocol',
+      getHref: () => '/admin/protocol',
+    },
+    /** People, places, sessions and the audit trail share one frame under /admin. */
+    area: {
+      path: '/admin',
+      getHref: () => '/admin',
+    },
+    people: {
+      path: '/admin/people',
+      getHref: () => '/admin/people',
+    },
+    places: {
+      path: '/admin/places',
+      getHref: () => '/admin/places',
+    },
+    sessions: {
+      path: '/admin/sessions',
+      getHref: () => '/admin/sessions',
+    },
+    audit: {
+      path: '/admin/audit',
+      getHref: () => '/admin/audit',
+    },
+  },
+  account: {
+    home: {
+      path: '/account',
+      getHref: () => '/account',
+    },
+    password: {
+      path: '/account/password',
+      getHref: (next?: string) => (next ? `/account/password?next=${encodeURIComponent(next)}` : '/account/password'),
+    },
+    secondFactor: {
+      path: '/account/second-factor',
+      getHref: (next?: string) => (next ? `/account/second-factor?next=${encodeURIComponent(next)}` : '/account/second-factor'),
+    },
+  },
+  pharmacy: {
+    worklist: {
+      path: '/pharmacy',
+      getHref: () => '/pharmacy',
+    },
+    code: {
+      path: '/pharmacy/codes/:codeId',
+      getHref: (codeId: string) => `/pharmacy/codes/${encodeURIComponent(codeId)}`,
+    },
+    trays: {
+      path: '/pharmacy/trays',
+      getHref: () => '/pharmacy/trays',
+    },
+  },
   codes: {
     record: {
       path: '/codes/:codeId/record',
       getHref: (codeId: string) => `/codes/${encodeURIComponent(codeId)}/record`,
+    },
+  },
+  quality: {
+    list: {
+      path: '/quality',
+      getHref: () => '/quality',
+    },
+    stats: {
+      path: '/quality/stats',
+      getHref: () => '/quality/stats',
+    },
+    code: {
+      path: '/quality/codes/:codeId',
+      getHref: (codeId: string) => `/quality/codes/${encodeURIComponent(codeId)}`,
     },
   },
 } as const;

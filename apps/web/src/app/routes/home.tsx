@@ -1,7 +1,9 @@
-import { Badge, Heading, SimpleGrid, Stack, Text, Wrap } from '@chakra-ui/react';
+import { Badge, Button, Heading, SimpleGrid, Stack, Text, Wrap } from '@chakra-ui/react';
 import { ROLE_LABELS, ROLES, WRITER_ROLES, type Role } from '@steadyhand/shared';
+import { Link as RouterLink } from 'react-router';
 import { HomePanel } from '../../components/ui/home-panel';
 import { PageTitle } from '../../components/ui/page-title';
+import { paths } from '../../config/paths';
 import { useCurrentUser } from '../../features/auth/hooks/use-current-user';
 import { LiveCodesPanel } from '../../features/codes/components/live-codes-panel';
 
@@ -20,7 +22,7 @@ const COMING_PANELS: Partial<Record<Role, { title: string; description: string }
   admin: {
     title: 'People and places',
     description:
-      'People and their roles, locations, the drug catalogue and default doses, reminder intervals and tray templates.',
+      'People and their roles, units, rooms and beds, sessions and the audit trail; the protocol, drug catalogue and tray templates.',
   },
 };
 
@@ -58,9 +60,45 @@ export function Component() {
           const panel = COMING_PANELS[role];
           return panel ? (
             <HomePanel key={role} testIds={[`home-panel-${role}`]} title={panel.title} description={panel.description}>
-              <Text textStyle="md" color="fg.muted">
-                Coming soon.
-              </Text>
+              {role === 'admin' ? (
+                <Wrap gap="3">
+                  <Button asChild colorPalette="brand" size="lg" data-testid="home-admin-area">
+                    <RouterLink to={paths.admin.area.getHref()}>People, places and audit trail</RouterLink>
+                  </Button>
+                  <Button asChild colorPalette="brand" size="lg">
+                    <RouterLink to={paths.admin.protocol.getHref()}>Protocol settings</RouterLink>
+                  </Button>
+                </Wrap>
+              ) : null}
+              {role === 'pharmacist' || role === 'admin' ? (
+                <Wrap gap="3">
+                  {role === 'pharmacist' ? (
+                    <Button asChild colorPalette="brand" size="lg" data-testid="home-pharmacy-worklist">
+                      <RouterLink to={paths.pharmacy.worklist.getHref()}>Codes to reconcile</RouterLink>
+                    </Button>
+                  ) : null}
+                  <Button asChild variant="outline" size="lg">
+                    <RouterLink to={paths.pharmacy.trays.getHref()}>Tray templates</RouterLink>
+                  </Button>
+                </Wrap>
+              ) : null}
+              {role === 'reviewer' || role === 'admin' ? (
+                <Wrap gap="3">
+                  <Button asChild colorPalette="brand" size="lg" variant={role === 'admin' ? 'outline' : 'solid'}>
+                    <RouterLink to={paths.quality.list.getHref()}>{role === 'admin' ? 'Quality review' : 'Codes to review'}</RouterLink>
+                  </Button>
+                  {role === 'reviewer' ? (
+                    <Button asChild variant="outline" size="lg">
+                      <RouterLink to={paths.quality.stats.getHref()}>Charts by month and unit</RouterLink>
+                    </Button>
+                  ) : null}
+                </Wrap>
+              ) : null}
+              {role === 'reviewer' || role === 'pharmacist' || role === 'admin' ? null : (
+                <Text textStyle="md" color="fg.muted">
+                  Coming soon.
+                </Text>
+              )}
             </HomePanel>
           ) : null;
         })}
