@@ -158,7 +158,7 @@ export class OutboxClient {
 
   /** Resolves once every tap is acknowledged. */
   whenIdle(timeoutMs: number): Promise<void> {
-    return this.waitFor(() => this.pending === 0 && this.outbox.every((i) => i.saved), timeoutMs, () => `${this.pending} entries unsaved`);
+    return this.waitFor(() => this.pending === 0, timeoutMs, () => `${this.pending} entries unsaved`);
   }
 
   /** Resolves once this screen has seen everything up to `cursor` in the code. */
