@@ -1,9 +1,10 @@
 import { Inject, Injectable } from '@nestjs/common';
 import type { Code, CodeStatus, NewEntry, Outcome, StoredEntry } from '@steadyhand/shared';
 import { and, asc, desc, eq, gt } from 'drizzle-orm';
-import { DB } from '../db/database.module.js';
-import type { Db } from '../db/database.js';
-import { codes, entries, signatures } from '../db/schema/index.js';
+import type { Statement } from 'better-sqlite3';
+import { DATABASE, DB } from '../db/database.module.js';
+import type { DatabaseHandle, Db } from '../db/database.js';
+import { codes, entries } from '../db/schema/index.js';
 
 type CodeRow = typeof codes.$inferSelect;
 type EntryRow = typeof entries.$inferSelect;
@@ -37,9 +38,62 @@ export function toStoredEntry(row: EntryRow): StoredEntry {
   };
 }
 
+/** An entries row as SQLite returns it (column names, integers for booleans). */
+interface RawEntryRow {
+  cursor: number;
+  code_id: string;
+  user_id: string;
+  received_at: string;
+  recorded_at: string;
+  addendum: number;
+  body: string;
+}
+
+function fromRawEntry(row: RawEntryRow): StoredEntry {
+  return {
+    ...(JSON.parse(row.body) as NewEntry),
+    codeId: row.code_id,
+    userId: row.user_id,
+    cursor: row.cursor,
+    receivedAt: row.received_at,
+    recordedAt: row.recorded_at,
+    addendum: row.addendum === 1,
+  };
+}
+
 @Injectable()
 export class CodesRepository {
-  constructor(@Inject(DB) private readonly db: Db) {}
+  /**
+   * The tap path (status, duplicate check, signed check, insert) runs on statements prepared
+   * once: building a query per tap cost more than the commit itself.
+   */
+  private readonly hot: {
+    codeStatus: Statement<[string], { status: CodeStatus }>;
+    entryById: Statement<[string], RawEntryRow>;
+    signed: Statement<[string], { one: number }>;
+    insert: Statement<unknown[], { cursor: number }>;
+  };
+
+  constructor(
+    @Inject(DB) private readonly db: Db,
+    @Inject(DATABASE) private readonly database: DatabaseHandle,
+  ) {
+    const { sqlite } = database;
+    this.hot = {
+      codeStatus: sqlite.prepare('SELECT status FROM codes WHERE id = ?'),
+      entryById: sqlite.prepare('SELECT * FROM entries WHERE id = ?'),
+      signed: sqlite.prepare('SELECT 1 AS one FROM signatures WHERE code_id = ? LIMIT 1'),
+      insert: sqlite.prepare(
+        `INSERT INTO entries (id, code_id, kind, at, at_ms, device_id, seq, offset_ms, offset_uncertainty_ms, user_id, received_at, recorded_at, addendum, body)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING cursor`,
+      ),
+    };
+  }
+
+  /** The code's status, or undefined when there is no such code. */
+  codeStatus(id: string): CodeStatus | undefined {
+    return this.hot.codeStatus.get(id)?.status;
+  }
 
   insertCode(row: typeof codes.$inferInsert): Code {
     return toCode(this.db.insert(codes).values(row).returning().get());
@@ -73,12 +127,12 @@ export class CodesRepository {
    * which depends on this one (no module cycle).
    */
   isSigned(codeId: string): boolean {
-    return this.db.select({ id: signatures.id }).from(signatures).where(eq(signatures.codeId, codeId)).limit(1).get() !== undefined;
+    return this.hot.signed.get(codeId) !== undefined;
   }
 
   findEntry(id: string): StoredEntry | undefined {
-    const row = this.db.select().from(entries).where(eq(entries.id, id)).get();
-    return row && toStoredEntry(row);
+    const row = this.hot.entryById.get(id);
+    return row && fromRawEntry(row);
   }
 
   /**
@@ -90,33 +144,41 @@ export class CodesRepository {
     meta: { codeId: string; userId: string; receivedAt: string; addendum: boolean },
     afterInsert?: (stored: StoredEntry) => void,
   ): { entry: StoredEntry; duplicate: boolean } {
-    return this.db.transaction((tx) => {
-      const existing = tx.select().from(entries).where(eq(entries.id, entry.id)).get();
-      if (existing) return { entry: toStoredEntry(existing), duplicate: true };
-      const row = tx
-        .insert(entries)
-        .values({
-          id: entry.id,
-          codeId: meta.codeId,
-          kind: entry.kind,
-          at: new Date(entry.at).toISOString(),
-          atMs: Date.parse(entry.at),
-          deviceId: entry.deviceId ?? null,
-          seq: entry.seq ?? null,
-          offsetMs: entry.offsetMs ?? null,
-          offsetUncertaintyMs: entry.offsetUncertaintyMs ?? null,
-          userId: meta.userId,
-          receivedAt: meta.receivedAt,
-          recordedAt: new Date().toISOString(),
-          addendum: meta.addendum,
-          body: { ...entry, at: new Date(entry.at).toISOString() } as Record<string, unknown>,
-        })
-        .returning()
-        .get();
-      const stored = toStoredEntry(row);
+    const commit = this.database.sqlite.transaction((): { entry: StoredEntry; duplicate: boolean } => {
+      const existing = this.hot.entryById.get(entry.id);
+      if (existing) return { entry: fromRawEntry(existing), duplicate: true };
+      const at = new Date(entry.at).toISOString();
+      const body = { ...entry, at };
+      const recordedAt = new Date().toISOString();
+      const { cursor } = this.hot.insert.get(
+        entry.id,
+        meta.codeId,
+        entry.kind,
+        at,
+        Date.parse(at),
+        entry.deviceId ?? null,
+        entry.seq ?? null,
+        entry.offsetMs ?? null,
+        entry.offsetUncertaintyMs ?? null,
+        meta.userId,
+        meta.receivedAt,
+        recordedAt,
+        meta.addendum ? 1 : 0,
+        JSON.stringify(body),
+      )!;
+      const stored: StoredEntry = {
+        ...body,
+        codeId: meta.codeId,
+        userId: meta.userId,
+        cursor,
+        receivedAt: meta.receivedAt,
+        recordedAt,
+        addendum: meta.addendum,
+      };
       afterInsert?.(stored);
       return { entry: stored, duplicate: false };
     });
+    return commit();
   }
 
   entriesOf(codeId: string, afterCursor = 0): StoredEntry[] {

@@ -39,8 +39,8 @@ export class EntriesService {
     if (!hasAnyRole(user.roles, WRITER_ROLES)) {
       throw new ForbiddenException('Only a recorder or a team leader can add entries');
     }
-    const code = this.repo.findCode(codeId);
-    if (!code) throw new NotFoundException(`No code with id ${codeId}`);
+    const statusBefore = this.repo.codeStatus(codeId);
+    if (!statusBefore) throw new NotFoundException(`No code with id ${codeId}`);
 
     // A resend of a tap stored earlier gets its stored row back, signed record or not, so an
     // outbox never loops on an entry that did land.
@@ -52,20 +52,21 @@ export class EntriesService {
     const signed = this.repo.isSigned(codeId);
     if (signed && !addendum) throw new ConflictException('This record is signed: add an addendum');
     if (!signed && addendum) throw new ConflictException('This record is not signed yet: add a plain entry, not an addendum');
-    if (entry.kind === 'void' || entry.kind === 'amend') this.checkCorrection(codeId, entry);
-    const target = entry.kind === 'void' || entry.kind === 'amend' ? this.repo.findEntry(entry.target) : undefined;
+    const target = entry.kind === 'void' || entry.kind === 'amend' ? this.checkCorrection(codeId, entry) : undefined;
+    const endTouched = entry.kind === 'end' || target?.kind === 'end';
     // The signed code row (status, end time, outcome) stays as signed; the log shows the addendum.
     if (addendum && entry.kind === 'void' && target?.kind === 'end') {
       throw new ConflictException('A signed record stays ended: amend the end entry or add a note instead of voiding it');
     }
 
-    const result = this.repo.appendEntry(entry, { codeId, userId: user.id, receivedAt, addendum }, (stored) => {
-      if (!addendum && this.touchesEnd(stored)) this.syncCodeStatus(codeId);
+    const result = this.repo.appendEntry(entry, { codeId, userId: user.id, receivedAt, addendum }, () => {
+      if (!addendum && endTouched) this.syncCodeStatus(codeId);
     });
     if (!result.duplicate) {
       this.auditEntry(user, codeId, entry, target, addendum);
-      this.events.emitAdded({ codeId, entry: result.entry, cursor: result.entry.cursor });
-      if (!addendum && this.touchesEnd(result.entry)) this.events.emitCodesChanged(codeId);
+      const codeStatus = !addendum && endTouched ? (this.repo.codeStatus(codeId) ?? statusBefore) : statusBefore;
+      this.events.emitAdded({ codeId, entry: result.entry, cursor: result.entry.cursor }, { codeStatus });
+      if (!addendum && endTouched) this.events.emitCodesChanged(codeId);
     }
     return result;
   }
@@ -103,13 +104,16 @@ export class EntriesService {
   }
 
   entriesAfter(codeId: string, afterCursor = 0): { entries: StoredEntry[]; cursor: number } {
-    if (!this.repo.findCode(codeId)) throw new NotFoundException(`No code with id ${codeId}`);
+    if (!this.repo.codeStatus(codeId)) throw new NotFoundException(`No code with id ${codeId}`);
     const list = this.repo.entriesOf(codeId, afterCursor);
     return { entries: list, cursor: list.length ? list[list.length - 1]!.cursor : afterCursor };
   }
 
-  /** A void or amend must point at an entry of the same code, and an amendment must leave a valid entry. */
-  private checkCorrection(codeId: string, entry: Extract<NewEntry, { kind: 'void' | 'amend' }>): void {
+  /**
+   * A void or amend must point at an entry of the same code, and an amendment must leave a valid
+   * entry. Returns the target.
+   */
+  private checkCorrection(codeId: string, entry: Extract<NewEntry, { kind: 'void' | 'amend' }>): StoredEntry {
     const target = this.repo.findEntry(entry.target);
     if (!target || target.codeId !== codeId) throw new BadRequestException(`target ${entry.target} is not an entry of this code`);
     if (target.kind === 'void') throw new BadRequestException('A void cannot be voided or amended; add a new entry instead');
@@ -118,12 +122,7 @@ export class EntriesService {
       const result = amendEntry(target, entry.changes);
       if (!result.ok) throw new BadRequestException(`The amendment would leave an invalid entry: ${result.error}`);
     }
-  }
-
-  private touchesEnd(entry: StoredEntry): boolean {
-    if (entry.kind === 'end') return true;
-    if (entry.kind === 'void' || entry.kind === 'amend') return this.repo.findEntry(entry.target)?.kind === 'end';
-    return false;
+    return target;
   }
 
   /** The code's status follows its log: ended by the first end entry that still stands. */

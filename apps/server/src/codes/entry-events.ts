@@ -1,6 +1,10 @@
 import { EventEmitter } from 'node:events';
 import { Injectable, type OnModuleDestroy } from '@nestjs/common';
-import type { EntryAddedEvent } from '@steadyhand/shared';
+import type { CodeStatus, EntryAddedEvent } from '@steadyhand/shared';
+
+export interface EntryAddedMeta {
+  codeStatus: CodeStatus;
+}
 
 /**
  * Told of each newly committed entry, whichever way it came in (REST or socket), so the live
@@ -14,15 +18,16 @@ export class EntryEvents implements OnModuleDestroy {
     this.emitter.setMaxListeners(50);
   }
 
-  emitAdded(event: EntryAddedEvent): void {
-    this.emitter.emit('added', event);
+  /** `meta.codeStatus`: the code's status after this entry, so listeners need not look it up. */
+  emitAdded(event: EntryAddedEvent, meta: EntryAddedMeta): void {
+    this.emitter.emit('added', event, meta);
   }
 
   emitCodesChanged(codeId: string): void {
     this.emitter.emit('codes-changed', codeId);
   }
 
-  onAdded(listener: (event: EntryAddedEvent) => void): void {
+  onAdded(listener: (event: EntryAddedEvent, meta: EntryAddedMeta) => void): void {
     this.emitter.on('added', listener);
   }
 

@@ -6,6 +6,7 @@ import {
   WebSocketGateway,
   WebSocketServer,
   type OnGatewayConnection,
+  type OnGatewayDisconnect,
   type OnGatewayInit,
 } from '@nestjs/websockets';
 import {
@@ -42,6 +43,9 @@ type LiveNamespace = Namespace<LiveClientToServer, LiveServerToClient, Record<st
 type HandshakeRequest = IncomingMessage & { sessionID?: string; user?: SessionUser; _query?: Record<string, string> };
 type Middleware = (req: HandshakeRequest, res: ServerResponse, next: (err?: unknown) => void) => void;
 
+/** How long a socket's person is trusted before it is read from the database again. */
+const USER_RECHECK_MS = 3000;
+
 export const roomOf = (codeId: string) => `code:${codeId}`;
 /** Every screen that shows the board of live codes. */
 const BOARD_ROOM = 'board';
@@ -59,8 +63,9 @@ const BOARD_ROOM = 'board';
   maxHttpBufferSize: 64 * 1024,
   cors: false,
 })
-export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConnection<LiveSocket> {
+export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConnection<LiveSocket>, OnGatewayDisconnect<LiveSocket> {
   private readonly logger = new Logger(LiveGateway.name);
+  private readonly userCache = new Map<string, { user: SessionUser; at: number }>();
   @WebSocketServer() private readonly nsp!: LiveNamespace;
 
   constructor(
@@ -111,11 +116,26 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
     }
   }
 
-  /** The person as they are now: a disabled account or a changed role takes effect at once. */
+  /**
+   * The person as they are now, read again at most every few seconds: a disabled account's
+   * sockets are closed at once by the 'user-disabled' event, and a role change counts within
+   * USER_RECHECK_MS, without two queries on every tap.
+   */
   private currentUser(socket: LiveSocket): SessionUser | undefined {
+    const cached = this.userCache.get(socket.id);
+    if (cached && Date.now() - cached.at < USER_RECHECK_MS) return cached.user;
     const user = this.users.sessionUser(socket.data.userId);
-    if (!user) socket.disconnect(true);
+    if (!user) {
+      this.userCache.delete(socket.id);
+      socket.disconnect(true);
+      return undefined;
+    }
+    this.userCache.set(socket.id, { user, at: Date.now() });
     return user;
+  }
+
+  handleDisconnect(socket: LiveSocket): void {
+    this.userCache.delete(socket.id);
   }
 
   @SubscribeMessage('code:join')

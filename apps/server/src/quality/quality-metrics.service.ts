@@ -23,7 +23,10 @@ export class QualityMetricsService implements OnApplicationBootstrap {
 
   onApplicationBootstrap(): void {
     // Taps on a running code change nothing here; a reopened code is announced as a codes change.
-    this.events.onAdded(({ codeId }) => this.refreshSafely(codeId, false));
+    // A code still running has no metrics yet; only corrections after the end change them.
+    this.events.onAdded(({ codeId }, { codeStatus }) => {
+      if (codeStatus === 'ended') this.refreshSafely(codeId, false);
+    });
     this.events.onCodesChanged((codeId) => this.refreshSafely(codeId, true));
     // Codes that ended while this table was not kept (an older build, a restored file).
     const missing = this.repo.endedCodesWithoutMetrics();
