@@ -40,7 +40,7 @@ export const LIVE_RECENT_COUNT = 8;
 
 /** Shown on every surface that shows reminders. */
 export const LIVE_REMINDER_CAUTION =
-  'Reminders support the team leader; they do not replace clinical judgment or local policy.';
+  "Reminders support, and do not replace, the team leader's judgment, local protocol and licensed practice.";
 
 export interface LiveStateInput {
   code: { arrestAt: string; category: CodeCategory; weightKg: number | null };

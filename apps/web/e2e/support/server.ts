@@ -30,7 +30,8 @@ export interface RunningServer {
 async function waitForHealth(baseUrl: string, child: ChildProcess, timeoutMs = 90_000): Promise<void> {
   const deadline = Date.now() + timeoutMs;
   while (Date.now() < deadline) {
-    if (child.exitCode !== null) throw new Error(`server exited with code ${child.exitCode}`);
+    if (child.exitCode !== null || child.signalCode !== null)
+      throw new Error(`server exited with ${child.exitCode ?? child.signalCode}`);
     try {
       const res = await fetch(`${baseUrl}/api/health`);
       if (res.ok) return;
@@ -66,10 +67,12 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
   };
   const stop = () =>
     new Promise<void>((resolve) => {
-      if (!child || child.exitCode !== null) return resolve();
-      child.once('exit', () => resolve());
-      child.kill('SIGTERM');
-      setTimeout(() => child.kill('SIGKILL'), 5000).unref();
+      // This process, not whichever one `child` names by the time the timer fires (after a restart).
+      const proc = child;
+      if (!proc || proc.exitCode !== null || proc.signalCode !== null) return resolve();
+      proc.once('exit', () => resolve());
+      proc.kill('SIGTERM');
+      setTimeout(() => proc.kill('SIGKILL'), 5000).unref();
     });
   await launch();
   return { baseUrl, dataDir, port, stop, restart: launch };

@@ -84,6 +84,14 @@ export const routes: RouteObject[] = [
         ],
       },
       {
+        // The walls fill the screen: signed in, but without the app frame.
+        lazy: () => import('./routes/wall-frame'),
+        children: [
+          { path: paths.codes.wall.path, lazy: () => import('./routes/codes/wall') },
+          { path: paths.wallBoard.path, lazy: () => import('./routes/wall-board') },
+        ],
+      },
+      {
         path: '*',
         lazy: () => import('./routes/not-found'),
       },

@@ -70,6 +70,16 @@ export const paths = {
       path: '/codes/:codeId/record',
       getHref: (codeId: string) => `/codes/${encodeURIComponent(codeId)}/record`,
     },
+    /** The timer wall for one code: the leader's screen across the room. */
+    wall: {
+      path: '/codes/:codeId/wall',
+      getHref: (codeId: string) => `/codes/${encodeURIComponent(codeId)}/wall`,
+    },
+  },
+  /** The board of every live code, each card opening its wall. */
+  wallBoard: {
+    path: '/wall',
+    getHref: () => '/wall',
   },
   quality: {
     list: {

@@ -53,6 +53,9 @@ export function LiveCodesPanel({ roles }: { roles: readonly Role[] }) {
         <ErrorMessage title="The code was not started" message={startCode.error.message} />
       ) : null}
       <ActiveCodeList codes={codes.data} isPending={codes.isPending} error={codes.error} />
+      <Button asChild variant="ghost" colorPalette="brand" alignSelf="start" data-testid="live-codes-board">
+        <RouterLink to={paths.wallBoard.getHref()}>Board of all live codes</RouterLink>
+      </Button>
     </HomePanel>
   );
 }
@@ -103,14 +106,24 @@ function ActiveCodeList({ codes, isPending, error }: ActiveCodeListProps) {
                   ) : null}
                 </Flex>
               </Stack>
-              <Button asChild variant="outline" colorPalette="brand">
-                <RouterLink
-                  to={paths.codes.record.getHref(code.id)}
-                  aria-label={`Open the code at ${code.location ?? 'an unrecorded location'}`}
-                >
-                  Open
-                </RouterLink>
-              </Button>
+              <Flex gap="2" wrap="wrap">
+                <Button asChild variant="outline" colorPalette="brand">
+                  <RouterLink
+                    to={paths.codes.record.getHref(code.id)}
+                    aria-label={`Open the code at ${code.location ?? 'an unrecorded location'}`}
+                  >
+                    Open
+                  </RouterLink>
+                </Button>
+                <Button asChild variant="outline" colorPalette="ink" data-testid="live-code-wall">
+                  <RouterLink
+                    to={paths.codes.wall.getHref(code.id)}
+                    aria-label={`Timer wall for the code at ${code.location ?? 'an unrecorded location'}`}
+                  >
+                    Timer wall
+                  </RouterLink>
+                </Button>
+              </Flex>
             </Flex>
           </Box>
         );

@@ -3,7 +3,7 @@ import type { Code, UpdateCodeRequest } from '@steadyhand/shared';
 import { useState } from 'react';
 import { ErrorMessage } from '../../../components/ui/error-message';
 import { useUpdateCode } from '../api/update-code';
-import { formatDose } from '../lib/entry-words';
+import { formatDose } from '../../../lib/live/entry-words';
 import { NumberEditor } from './editor-panel';
 import { PadGroup } from './pad-group';
 

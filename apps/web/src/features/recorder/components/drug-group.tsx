@@ -7,7 +7,7 @@ import {
   type DrugDefinition,
   type ProtocolSettings,
 } from '@steadyhand/shared';
-import { formatDose, ROUTE_WORDS } from '../lib/entry-words';
+import { formatDose, ROUTE_WORDS } from '../../../lib/live/entry-words';
 import { PadButton } from './pad-button';
 import { PadGroup } from './pad-group';
 

@@ -1,7 +1,7 @@
 import { Box, Button, Flex, Heading, SimpleGrid, Stack, Text, Textarea } from '@chakra-ui/react';
 import { DOSE_UNITS, DRUG_ROUTES, doseUnitLabel, type DoseUnit } from '@steadyhand/shared';
 import { useEffect, useRef, useState, type ReactNode } from 'react';
-import { ROUTE_WORDS } from '../lib/entry-words';
+import { ROUTE_WORDS } from '../../../lib/live/entry-words';
 import { NumberPad, parsePadNumber } from './number-pad';
 
 type Route = (typeof DRUG_ROUTES)[number];

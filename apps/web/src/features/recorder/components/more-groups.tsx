@@ -1,10 +1,10 @@
 import { Button, SimpleGrid, Stack, Text } from '@chakra-ui/react';
 import { OUTCOMES } from '@steadyhand/shared';
 import { useState } from 'react';
-import { AIRWAY_WORDS, OUTCOME_WORDS } from '../lib/entry-words';
+import { AIRWAY_WORDS, OUTCOME_WORDS } from '../../../lib/live/entry-words';
 import { PadButton } from './pad-button';
 import { PadGroup } from './pad-group';
-import { Shape } from './shapes';
+import { Shape } from '../../../components/ui/shapes';
 import type { Tap } from './types';
 
 export function AirwayGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {

@@ -7,8 +7,8 @@ import {
 } from '@steadyhand/shared';
 import dayjs from 'dayjs';
 import { useState } from 'react';
-import { describeEntry } from '../lib/entry-words';
-import { Shape } from './shapes';
+import { describeEntry } from '../../../lib/live/entry-words';
+import { Shape } from '../../../components/ui/shapes';
 
 export const VOID_REASONS = [
   'Tapped by mistake',

@@ -4,6 +4,7 @@ import {
   deriveLiveStateFromLive,
   effectiveEntries,
   formatElapsedMs,
+  LIVE_REMINDER_CAUTION,
   nextShockJoules,
   type Code,
   type DosingSheet,
@@ -12,9 +13,11 @@ import {
   type ProtocolSettings,
 } from '@steadyhand/shared';
 import { useCallback, useMemo, useState } from 'react';
+import { Link as RouterLink } from 'react-router';
+import { paths } from '../../../config/paths';
 import type { EntryFields } from '../../../lib/live/entry-build';
 import type { LiveCode } from '../../../lib/live/use-live-code';
-import { describeEntry, OUTCOME_WORDS } from '../lib/entry-words';
+import { describeEntry, OUTCOME_WORDS } from '../../../lib/live/entry-words';
 import { CodeDetails } from './code-details';
 import { CprGroup } from './cpr-group';
 import { DrugGroup, type DrugTapPlan } from './drug-group';
@@ -22,13 +25,12 @@ import { DoseEditor, NoteEditor, NumberEditor } from './editor-panel';
 import { AccessGroup, AirwayGroup, Etco2Group, EventGroup } from './more-groups';
 import { RecentEntries } from './recent-entries';
 import { RhythmGroup } from './rhythm-group';
-import { Shape } from './shapes';
+import { Shape } from '../../../components/ui/shapes';
 import { ShockGroup } from './shock-group';
 import { StatusStrip } from './status-strip';
 import { UNDO_WINDOW_MS, UndoBar, type LastTap } from './undo-bar';
 
-export const REMINDER_CAUTION =
-  "Reminders support, and do not replace, the team leader's judgment, local protocol and licensed practice.";
+export const REMINDER_CAUTION = LIVE_REMINDER_CAUTION;
 export const UNDO_REASON = 'undone on the pad within 5 s';
 export const AMEND_REASON = 'dose corrected after tap';
 const DOSE_EDIT_WINDOW_MS = 30_000;
@@ -150,12 +152,17 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
           {pediatric ? 'Pediatric' : 'Adult'} code · {code.location ?? 'location not set'}
           {code.weightKg !== null ? ` · ${code.weightKg} kg` : ''}
         </Text>
-        <Text textStyle="sm" color="ink.700">
-          Clock offset {Math.round(clock.offsetMs)} ms
-          {clock.uncertaintyMs !== null
-            ? ` ± ${Math.round(clock.uncertaintyMs)} ms`
-            : ' (not yet measured)'}
-        </Text>
+        <Flex align="baseline" gap="3">
+          <Text textStyle="sm" color="ink.700">
+            Clock offset {Math.round(clock.offsetMs)} ms
+            {clock.uncertaintyMs !== null
+              ? ` ± ${Math.round(clock.uncertaintyMs)} ms`
+              : ' (not yet measured)'}
+          </Text>
+          <Button asChild size="sm" variant="outline" data-testid="pad-wall-link">
+            <RouterLink to={paths.codes.wall.getHref(code.id)}>Wall</RouterLink>
+          </Button>
+        </Flex>
       </Flex>
 
       <StatusStrip

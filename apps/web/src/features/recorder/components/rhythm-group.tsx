@@ -1,10 +1,10 @@
 import { Button, SimpleGrid, Stack } from '@chakra-ui/react';
 import { RHYTHMS, SHOCKABLE_RHYTHMS } from '@steadyhand/shared';
 import { useState } from 'react';
-import { RHYTHM_WORDS } from '../lib/entry-words';
+import { RHYTHM_WORDS } from '../../../lib/live/entry-words';
 import { PadButton } from './pad-button';
 import { PadGroup } from './pad-group';
-import { Shape } from './shapes';
+import { Shape } from '../../../components/ui/shapes';
 import type { Tap } from './types';
 
 /** Set the pulse first if there is one (it starts at "no pulse"), then tap what the monitor shows. */

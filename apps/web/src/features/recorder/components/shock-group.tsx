@@ -2,7 +2,7 @@ import { Box, Button, SimpleGrid, Stack, Text } from '@chakra-ui/react';
 import type { DosingSheet, EnergyStep } from '@steadyhand/shared';
 import { PadButton } from './pad-button';
 import { PadGroup } from './pad-group';
-import { Shape } from './shapes';
+import { Shape } from '../../../components/ui/shapes';
 import type { Tap } from './types';
 
 interface ShockGroupProps {

@@ -9,9 +9,9 @@ import {
 } from '@steadyhand/shared';
 import type { ReactNode } from 'react';
 import type { LiveSyncState } from '../../../lib/live/use-live-code';
-import { useSecondTick } from '../hooks/use-second-tick';
-import { PAUSE_WORDS, RHYTHM_WORDS } from '../lib/entry-words';
-import { Shape, type ShapeKind } from './shapes';
+import { useSecondTick } from '../../../lib/live/use-second-tick';
+import { PAUSE_WORDS, RHYTHM_WORDS } from '../../../lib/live/entry-words';
+import { Shape, type ShapeKind } from '../../../components/ui/shapes';
 
 type Tone = 'calm' | 'due' | 'overdue' | 'ok';
 

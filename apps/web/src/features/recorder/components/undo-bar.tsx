@@ -1,8 +1,8 @@
 import { Box, Button, Flex, Text } from '@chakra-ui/react';
 import type { NewEntry, ProtocolSettings } from '@steadyhand/shared';
 import { useEffect, useState } from 'react';
-import { describeEntry } from '../lib/entry-words';
-import { Shape } from './shapes';
+import { describeEntry } from '../../../lib/live/entry-words';
+import { Shape } from '../../../components/ui/shapes';
 
 export const UNDO_WINDOW_MS = 5_000;
 
