@@ -2,19 +2,11 @@ import { Box, Button, Flex, Input, SimpleGrid, Stack, Text } from '@chakra-ui/re
 import type { Code, UpdateCodeRequest } from '@steadyhand/shared';
 import { useState } from 'react';
 import { ErrorMessage } from '../../../components/ui/error-message';
+import { usePlaces } from '../api/get-places';
 import { useUpdateCode } from '../api/update-code';
 import { formatDose } from '../../../lib/live/entry-words';
 import { NumberEditor } from './editor-panel';
 import { PadGroup } from './pad-group';
-
-/** Units of the (invented) demo hospital; any other place can be written in. */
-export const QUICK_LOCATIONS = [
-  '4 West Medical',
-  'Cardiac Step-Down 3B',
-  'Emergency Bay 2',
-  'ICU 5 North',
-  'Radiology',
-] as const;
 
 /** Adult or pediatric, the weight and the place, at any time during the code. */
 export function CodeDetails({
@@ -27,6 +19,8 @@ export function CodeDetails({
   onSaved: (code: Code) => void;
 }) {
   const update = useUpdateCode(code.id, { onSuccess: onSaved });
+  // The admin's list of units; without it (offline, not loaded) any place can still be written in.
+  const units = (usePlaces().data?.units ?? []).filter((u) => u.active);
   const [weightOpen, setWeightOpen] = useState(false);
   const [otherPlace, setOtherPlace] = useState<string | null>(null);
   const save = (changes: UpdateCodeRequest) => update.mutate(changes);
@@ -73,19 +67,19 @@ export function CodeDetails({
             Location: <span data-testid="details-location">{code.location ?? 'not set'}</span>
           </Text>
           <SimpleGrid columns={2} gap="2">
-            {QUICK_LOCATIONS.map((place) => (
+            {units.map((unit) => (
               <Button
-                key={place}
+                key={unit.id}
                 minH="16"
                 h="auto"
                 whiteSpace="normal"
-                variant={code.location === place ? 'solid' : 'outline'}
+                variant={code.location === unit.name ? 'solid' : 'outline'}
                 colorPalette="ink"
-                bg={code.location === place ? undefined : 'white'}
+                bg={code.location === unit.name ? undefined : 'white'}
                 disabled={disabled}
-                onClick={() => save({ location: place })}
+                onClick={() => save({ location: unit.name, unitId: unit.id })}
               >
-                {place}
+                {unit.name}
               </Button>
             ))}
             <Button
