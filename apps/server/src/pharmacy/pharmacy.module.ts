@@ -2,7 +2,6 @@ import { Module } from '@nestjs/common';
 import { CodesModule } from '../codes/codes.module.js';
 import { ProtocolModule } from '../protocol/protocol.module.js';
 import { UsersModule } from '../users/users.module.js';
-import { PharmacyMailer } from './pharmacy-mailer.js';
 import { PharmacyRepository } from './pharmacy.repository.js';
 import { ReconciliationController } from './reconciliation.controller.js';
 import { ReconciliationService } from './reconciliation.service.js';
@@ -13,6 +12,6 @@ import { TraysService } from './trays.service.js';
 @Module({
   imports: [CodesModule, ProtocolModule, UsersModule],
   controllers: [TraysController, ReconciliationController],
-  providers: [PharmacyRepository, TraysService, ReconciliationService, PharmacyMailer],
+  providers: [PharmacyRepository, TraysService, ReconciliationService],
 })
 export class PharmacyModule {}

@@ -237,10 +237,6 @@ export class PharmacyRepository {
     const value = this.db.select({ value: settings.value }).from(settings).where(eq(settings.key, 'facility')).get()?.value as { name?: unknown } | undefined;
     return typeof value?.name === 'string' && value.name.trim() ? value.name.trim() : 'Steadyhand';
   }
-
-  logMail(row: typeof mailLog.$inferInsert): void {
-    this.db.insert(mailLog).values(row).run();
-  }
 }
 
 export const PHARMACY_MAIL_SUBJECT = 'Drug discrepancy';

@@ -25,7 +25,9 @@ import type { SessionUser } from '../auth/session-user.js';
 import { CodesService } from '../codes/codes.service.js';
 import { ProtocolService } from '../protocol/protocol.service.js';
 import { UsersService } from '../users/users.service.js';
-import { PharmacyMailer } from './pharmacy-mailer.js';
+import { APP_CONFIG } from '../config/config.module.js';
+import type { AppConfig } from '../config/config.js';
+import { MailService } from '../mail/mail.service.js';
 import { PHARMACY_MAIL_SUBJECT, PharmacyRepository } from './pharmacy.repository.js';
 import { renderRestockPdf } from './restock-pdf.js';
 
@@ -58,7 +60,8 @@ export class ReconciliationService {
     @Inject(ProtocolService) private readonly protocol: ProtocolService,
     @Inject(UsersService) private readonly users: UsersService,
     @Inject(AuditService) private readonly audit: AuditService,
-    @Inject(PharmacyMailer) private readonly mailer: PharmacyMailer,
+    @Inject(MailService) private readonly mail: MailService,
+    @Inject(APP_CONFIG) private readonly config: AppConfig,
   ) {}
 
   /** Ended codes awaiting a signed reconciliation, oldest first, with counts. */
@@ -277,7 +280,12 @@ export class ReconciliationService {
       ...(view.notes ? ['Pharmacist notes:', view.notes, ''] : []),
       'Sign in to Steadyhand to read the reconciliation.',
     ].join('\n');
-    await this.mailer.send({ subject: `${PHARMACY_MAIL_SUBJECT}: ${oneLine(where)}, ${view.code.arrestAt.slice(0, 10)}`, text, codeId: view.code.id });
+    await this.mail.send({
+      to: [this.config.mail.pharmacy],
+      subject: `${PHARMACY_MAIL_SUBJECT}: ${oneLine(where)}, ${view.code.arrestAt.slice(0, 10)}`,
+      text,
+      codeId: view.code.id,
+    });
   }
 
   private facilityName(): string {
