@@ -1,22 +1,11 @@
-import type { Browser } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { enrolAuthenticator, launchChromium, newContext, screenshot, signInAs, signInAsAdmin } from './support/browser.js';
-import { startServer, type RunningServer } from './support/server.js';
+import { describe, expect, it } from 'vitest';
+import { enrolAuthenticator, newContext, screenshot, signInAs, signInAsAdmin, useServerAndBrowser } from './support/browser.js';
 
 describe('the admin area, in Chromium', () => {
-  let server: RunningServer;
-  let browser: Browser;
-  beforeAll(async () => {
-    server = await startServer();
-    browser = await launchChromium();
-  }, 60_000);
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
+  const run = useServerAndBrowser({ timeoutMs: 60_000 });
 
   it('the demo admin sets up an authenticator from the QR page, signs in again with a code, adds a person with roles and disables them', async () => {
-    const context = await newContext(browser, server.baseUrl);
+    const context = await newContext(run.browser, run.server.baseUrl);
     const page = await context.newPage();
 
     // No authenticator yet: the admin pages send the admin to set one up first.

@@ -1,23 +1,12 @@
-import type { Browser } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, newContext, screenshot, signInAs } from './support/browser.js';
+import { describe, expect, it } from 'vitest';
+import { newContext, screenshot, signInAs, useServerAndBrowser } from './support/browser.js';
 import { poll, recentIds, startCodeFromHome, storedLog, tap } from './support/pad.js';
-import { startServer, type RunningServer } from './support/server.js';
 
 describe('taps while the tablet is offline, in Chromium', () => {
-  let server: RunningServer;
-  let browser: Browser;
-  beforeAll(async () => {
-    server = await startServer();
-    browser = await launchChromium();
-  }, 90_000);
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
+  const run = useServerAndBrowser({ timeoutMs: 90_000 });
 
   it('keeps every tap through going offline and a reload, then stores each exactly once, in order', async () => {
-    const ctx = await newContext(browser, server.baseUrl);
+    const ctx = await newContext(run.browser, run.server.baseUrl);
     const pad = await ctx.newPage();
     await signInAs(pad, 'maren.holt');
     const codeId = await startCodeFromHome(pad);
@@ -89,7 +78,7 @@ describe('taps while the tablet is offline, in Chromium', () => {
     expect(new Set(log.entries.map((e) => e.deviceId)).size).toBe(1);
 
     // A second screen shows the same log.
-    const wallCtx = await newContext(browser, server.baseUrl);
+    const wallCtx = await newContext(run.browser, run.server.baseUrl);
     const wall = await wallCtx.newPage();
     await signInAs(wall, 'kofi.asante');
     await wall.goto(`/codes/${codeId}/record`);

@@ -1,23 +1,12 @@
 import { DEFAULT_PROTOCOL } from '@steadyhand/shared';
-import type { Browser } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, newContext, screenshot, signInAs, signInAsAdmin } from './support/browser.js';
-import { startServer, type RunningServer } from './support/server.js';
+import { describe, expect, it } from 'vitest';
+import { newContext, screenshot, signInAs, signInAsAdmin, useServerAndBrowser } from './support/browser.js';
 
 describe('protocol settings, in Chromium', () => {
-  let server: RunningServer;
-  let browser: Browser;
-  beforeAll(async () => {
-    server = await startServer();
-    browser = await launchChromium();
-  }, 60_000);
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
+  const run = useServerAndBrowser({ timeoutMs: 60_000 });
 
   it('lets the admin change the compression cycle; the change survives a reload and nothing else moves', async () => {
-    const context = await newContext(browser, server.baseUrl);
+    const context = await newContext(run.browser, run.server.baseUrl);
     const page = await context.newPage();
     await signInAsAdmin(page);
     await page.goto('/');
@@ -47,7 +36,7 @@ describe('protocol settings, in Chromium', () => {
   }, 120_000);
 
   it('tells a recorder the page needs the administrator role', async () => {
-    const context = await newContext(browser, server.baseUrl);
+    const context = await newContext(run.browser, run.server.baseUrl);
     const page = await context.newPage();
     await signInAs(page, 'maren.holt');
     await page.goto('/admin/protocol');

@@ -1,6 +1,5 @@
-import type { Browser } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, newContext, screenshot, signInAs } from './support/browser.js';
+import { describe, expect, it } from 'vitest';
+import { newContext, screenshot, signInAs, useServerAndBrowser } from './support/browser.js';
 import {
   arrivalOf,
   poll,
@@ -9,23 +8,13 @@ import {
   tap,
   watchArrivals,
 } from './support/pad.js';
-import { startServer, type RunningServer } from './support/server.js';
 
 describe('the recorder pad, in Chromium on a tablet', () => {
-  let server: RunningServer;
-  let browser: Browser;
-  beforeAll(async () => {
-    server = await startServer();
-    browser = await launchChromium();
-  }, 90_000);
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
+  const run = useServerAndBrowser({ timeoutMs: 90_000 });
 
   it('records a whole adult code without typing, and the leader sees each entry land', async () => {
-    const recorderCtx = await newContext(browser, server.baseUrl);
-    const leaderCtx = await newContext(browser, server.baseUrl);
+    const recorderCtx = await newContext(run.browser, run.server.baseUrl);
+    const leaderCtx = await newContext(run.browser, run.server.baseUrl);
     const pad = await recorderCtx.newPage();
     const wall = await leaderCtx.newPage();
     await signInAs(pad, 'maren.holt');
@@ -123,7 +112,7 @@ describe('the recorder pad, in Chromium on a tablet', () => {
   }, 240_000);
 
   it('shows a pad in the middle of a code, and a read-only view to a pharmacist', async () => {
-    const ctx = await newContext(browser, server.baseUrl);
+    const ctx = await newContext(run.browser, run.server.baseUrl);
     const pad = await ctx.newPage();
     await signInAs(pad, 'maren.holt');
     const codeId = await startCodeFromHome(pad);
@@ -163,7 +152,7 @@ describe('the recorder pad, in Chromium on a tablet', () => {
     await pad.setViewportSize({ width: 390, height: 844 });
     console.warn(`[screenshot] ${await screenshot(pad, 'recorder-pad-phone')}`);
 
-    const pharmCtx = await newContext(browser, server.baseUrl);
+    const pharmCtx = await newContext(run.browser, run.server.baseUrl);
     const pharm = await pharmCtx.newPage();
     await signInAs(pharm, 'priya.venkat');
     await pharm.goto(`/codes/${codeId}/record`);
@@ -179,7 +168,7 @@ describe('the recorder pad, in Chromium on a tablet', () => {
   }, 240_000);
 
   it('shows weight-based doses and energies with the double-check caution on a pediatric code', async () => {
-    const ctx = await newContext(browser, server.baseUrl);
+    const ctx = await newContext(run.browser, run.server.baseUrl);
     const pad = await ctx.newPage();
     await signInAs(pad, 'kofi.asante');
     await startCodeFromHome(pad);

@@ -1,7 +1,5 @@
-import type { Browser } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, newContext, screenshot, signInAs } from './support/browser.js';
-import { startServer, type RunningServer } from './support/server.js';
+import { describe, expect, it } from 'vitest';
+import { newContext, screenshot, signInAs, useServerAndBrowser } from './support/browser.js';
 
 const PEOPLE = [
   { role: 'recorder', username: 'maren.holt', name: 'Maren Holt, RN' },
@@ -12,20 +10,11 @@ const PEOPLE = [
 ] as const;
 
 describe('signing in, in Chromium', () => {
-  let server: RunningServer;
-  let browser: Browser;
-  beforeAll(async () => {
-    server = await startServer();
-    browser = await launchChromium();
-  }, 60_000);
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
+  const run = useServerAndBrowser({ timeoutMs: 60_000 });
 
   for (const person of PEOPLE) {
     it(`shows the ${person.role}'s home after signing in as ${person.username}`, async () => {
-      const context = await newContext(browser, server.baseUrl);
+      const context = await newContext(run.browser, run.server.baseUrl);
       const page = await context.newPage();
       await signInAs(page, person.username);
       await expect.poll(() => page.getByTestId('home-heading').innerText()).toContain(person.name.split(',')[0]!);
@@ -36,7 +25,7 @@ describe('signing in, in Chromium', () => {
   }
 
   it('shows the demo password only in demo mode, and a clear message for a wrong password', async () => {
-    const context = await newContext(browser, server.baseUrl);
+    const context = await newContext(run.browser, run.server.baseUrl);
     const page = await context.newPage();
     await page.goto('/sign-in');
     await expect.poll(() => page.getByText('steady-hands-demo').count()).toBeGreaterThan(0);
@@ -49,7 +38,7 @@ describe('signing in, in Chromium', () => {
   });
 
   it('sends a signed-out visitor to sign in, then back where they were going', async () => {
-    const context = await newContext(browser, server.baseUrl);
+    const context = await newContext(run.browser, run.server.baseUrl);
     const page = await context.newPage();
     await page.goto('/codes/some-code/record');
     await page.waitForURL(/\/sign-in\?next=/);

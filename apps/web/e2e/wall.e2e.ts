@@ -1,8 +1,7 @@
-import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchChromium, newContext, screenshot, signInAs } from './support/browser.js';
+import type { BrowserContext, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { newContext, screenshot, signInAs, useServerAndBrowser } from './support/browser.js';
 import { poll, startCodeFromHome, tap } from './support/pad.js';
-import { startServer, type RunningServer } from './support/server.js';
 
 const WALL_SCREEN = { width: 1920, height: 1080 };
 const MINUTE = 60_000;
@@ -63,21 +62,12 @@ async function compareWalls(a: Page, b: Page): Promise<{ diffMs: number; slackMs
 }
 
 describe('the timer wall, in Chromium on a 1080p screen', () => {
-  let server: RunningServer;
-  let browser: Browser;
-  beforeAll(async () => {
-    server = await startServer();
-    browser = await launchChromium();
-  }, 90_000);
-  afterAll(async () => {
-    await browser?.close();
-    await server?.stop();
-  });
+  const run = useServerAndBrowser({ timeoutMs: 90_000 });
 
   it('shows each tap, agrees across skewed device clocks, and says when the link is lost', async () => {
-    const recorderCtx = await newContext(browser, server.baseUrl);
-    const wallCtx = await newContext(browser, server.baseUrl, WALL_SCREEN);
-    const otherWallCtx = await newContext(browser, server.baseUrl, WALL_SCREEN);
+    const recorderCtx = await newContext(run.browser, run.server.baseUrl);
+    const wallCtx = await newContext(run.browser, run.server.baseUrl, WALL_SCREEN);
+    const otherWallCtx = await newContext(run.browser, run.server.baseUrl, WALL_SCREEN);
     await shiftDeviceClock(wallCtx, 7 * MINUTE);
     await shiftDeviceClock(otherWallCtx, -3 * MINUTE);
     const pad = await recorderCtx.newPage();
@@ -152,7 +142,7 @@ describe('the timer wall, in Chromium on a 1080p screen', () => {
     await poll(() => wall.getByTestId('wall-stale-banner').count()).toBe(0);
 
     // The server stops: the wall says so within 10 s, with the age of its last update.
-    await server.stop();
+    await run.server.stop();
     const stoppedAt = performance.now();
     await wall.getByTestId('wall-stale-banner').waitFor({ timeout: 10_000 });
     console.warn(`[stale] banner shown ${(performance.now() - stoppedAt).toFixed(0)} ms after the server stopped`);
@@ -162,7 +152,7 @@ describe('the timer wall, in Chromium on a 1080p screen', () => {
     await wall.waitForTimeout(1_500);
     console.warn(`[screenshot] ${await screenshot(wall, 'wall-adult-not-connected')}`);
 
-    await server.restart();
+    await run.server.restart();
     await wall.getByTestId('wall-stale-banner').waitFor({ state: 'detached', timeout: 30_000 });
     await wall.locator(`[data-testid="wall-last-entry"][data-entry-id="${offline.id}"]`).waitFor({ timeout: 20_000 });
     const fresh = await tap(pad, 'cpr-pause-rhythm-check');
@@ -199,7 +189,7 @@ describe('the timer wall, in Chromium on a 1080p screen', () => {
   }, 240_000);
 
   it('shows the weight and weight-based doses with the double-check caution on a pediatric code', async () => {
-    const ctx = await newContext(browser, server.baseUrl);
+    const ctx = await newContext(run.browser, run.server.baseUrl);
     const pad = await ctx.newPage();
     await signInAs(pad, 'kofi.asante');
     const codeId = await startCodeFromHome(pad);
@@ -211,7 +201,7 @@ describe('the timer wall, in Chromium on a 1080p screen', () => {
     await poll(() => pad.getByTestId('drug-epinephrine').innerText()).toContain('0.2 mg');
     await tap(pad, 'cpr-start');
 
-    const wallCtx = await newContext(browser, server.baseUrl, WALL_SCREEN);
+    const wallCtx = await newContext(run.browser, run.server.baseUrl, WALL_SCREEN);
     const wall = await wallCtx.newPage();
     await signInAs(wall, 'kofi.asante');
     await wall.goto(`/codes/${codeId}/wall`);

@@ -2,7 +2,8 @@ import { mkdirSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import path from 'node:path';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
-import { DEMO_PASSWORD, REPO_ROOT } from './server.js';
+import { afterAll, beforeAll } from 'vitest';
+import { DEMO_PASSWORD, REPO_ROOT, startServer, type RunningServer } from './server.js';
 
 export const SCREENSHOTS = path.join(REPO_ROOT, 'test-results', 'screenshots');
 
@@ -97,4 +98,34 @@ export async function screenshot(page: Page, name: string): Promise<string> {
   const file = path.join(SCREENSHOTS, `${name}.png`);
   await page.screenshot({ path: file, fullPage: true });
   return file;
+}
+
+/**
+ * One built server and one Chromium for a test file: started before its tests, stopped after.
+ * Read `run.server` and `run.browser` inside the tests.
+ */
+export function useServerAndBrowser(options: { env?: Record<string, string>; timeoutMs?: number } = {}): {
+  readonly server: RunningServer;
+  readonly browser: Browser;
+} {
+  let server: RunningServer | undefined;
+  let browser: Browser | undefined;
+  beforeAll(async () => {
+    server = await startServer(options.env);
+    browser = await launchChromium();
+  }, options.timeoutMs ?? 90_000);
+  afterAll(async () => {
+    await browser?.close();
+    await server?.stop();
+  });
+  return {
+    get server() {
+      if (!server) throw new Error('the server has not started');
+      return server;
+    },
+    get browser() {
+      if (!browser) throw new Error('the browser has not started');
+      return browser;
+    },
+  };
 }
