@@ -91,7 +91,7 @@ describe('quality review, in Chromium', () => {
     await page.getByTestId('home-panel-reviewer').getByRole('link', { name: 'Codes to review' }).click();
     await page.waitForURL(/\/quality$/);
     await page.getByTestId('quality-total').waitFor();
-    expect(await page.getByTestId('quality-total').innerText()).toContain('2 codes match');
+    await expect.poll(() => page.getByTestId('quality-total').innerText(), POLL).toContain('2 codes match');
     await expect.poll(() => page.getByTestId('quality-row').count(), POLL).toBe(2);
 
     // Filter: the code that missed the epinephrine target, then clear and filter by unit.
@@ -100,9 +100,11 @@ describe('quality review, in Chromium', () => {
     expect(await page.getByTestId('quality-row').getAttribute('data-code-id')).toBe(asystoleCode);
     expect(await page.getByTestId('quality-row').innerText()).toContain('Epinephrine within 5 min');
     await page.getByTestId('quality-filter-missed').selectOption('');
+    await expect.poll(() => page.getByTestId('quality-row').count(), POLL).toBe(2);
     await page.getByTestId('quality-filter-unit').selectOption({ label: '4 West Medical' });
+    // Wait for the unit filter's answer itself: the list just before it also had one row.
+    await expect.poll(() => page.getByTestId('quality-row').first().getAttribute('data-code-id'), POLL).toBe(shockCode);
     await expect.poll(() => page.getByTestId('quality-row').count(), POLL).toBe(1);
-    expect(await page.getByTestId('quality-row').getAttribute('data-code-id')).toBe(shockCode);
     await screenshot(page, 'quality-list');
 
     // The CSV of what the filters show.
