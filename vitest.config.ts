@@ -53,6 +53,8 @@ export default defineConfig({
           fileParallelism: false,
           testTimeout: 60_000,
           hookTimeout: 90_000,
+          // Pages load lazy chunks and data: a 1 s poll is too short on a busy 2-core machine.
+          expect: { poll: { timeout: 15_000 } },
         },
       },
     ],

@@ -17,7 +17,7 @@ describe('signing in, in Chromium', () => {
       const context = await newContext(run.browser, run.server.baseUrl);
       const page = await context.newPage();
       await signInAs(page, person.username);
-      await expect.poll(() => page.getByTestId('home-heading').innerText()).toContain(person.name.split(',')[0]!);
+      await expect.poll(() => page.getByTestId('home-heading').innerText(), { timeout: 15_000 }).toContain(person.name.split(',')[0]!);
       expect(await page.getByTestId(`home-panel-${person.role}`).isVisible()).toBe(true);
       await screenshot(page, `home-${person.role}`);
       await context.close();
@@ -28,7 +28,7 @@ describe('signing in, in Chromium', () => {
     const context = await newContext(run.browser, run.server.baseUrl);
     const page = await context.newPage();
     await page.goto('/sign-in');
-    await expect.poll(() => page.getByText('steady-hands-demo').count()).toBeGreaterThan(0);
+    await expect.poll(() => page.getByText('steady-hands-demo').count(), { timeout: 15_000 }).toBeGreaterThan(0);
     await page.getByLabel('Username').fill('maren.holt');
     await page.getByLabel('Password').fill('not the right one');
     await page.getByRole('button', { name: 'Sign in' }).click();
