@@ -143,8 +143,9 @@ describe('the signed record', () => {
 
   it('refuses a signature with a wrong password, and stores none', async () => {
     const id = await demoCode();
-    const res = await sign(recorder, id, 'recorded-by', 'not the password').expect(401);
-    expect(res.body.message).toBe('password does not match');
+    // 403, not 401: a mistyped password must not look like an ended session to the page.
+    const res = await sign(recorder, id, 'recorded-by', 'not the password').expect(403);
+    expect(res.body).toMatchObject({ error: 'password', message: 'The password does not match. Nothing was signed.' });
     const record = await recorder.agent.get(`/api/codes/${id}/record`).expect(200);
     expect(record.body.signatures).toEqual([]);
     expect(record.body.status).toBe('draft');
@@ -173,6 +174,16 @@ describe('the signed record', () => {
       expect.objectContaining({ printedName: 'Maren Holt, RN', meaningText: 'Recorded by', valid: true }),
       expect.objectContaining({ printedName: 'Dr Kofi Asante', meaningText: 'Reviewed and confirmed by', valid: true }),
     ]);
+    // Names for the review table: whoever wrote an entry or signed.
+    const leaderId = record.body.signatures[1].signerId as string;
+    expect(record.body.people[leaderId]).toBe('Dr Kofi Asante');
+    expect(Object.values(record.body.people)).toContain('Maren Holt, RN');
+
+    // The list of records: this one signed, the running code absent (only ended codes have a record to sign).
+    const list = await pharmacist.agent.get('/api/records').expect(200);
+    const listed = (list.body.records as { code: { id: string }; status: string; signatures: { meaning: string }[] }[]).find((r) => r.code.id === id);
+    expect(listed).toMatchObject({ status: 'signed', signatures: [{ meaning: 'recorded-by' }, { meaning: 'reviewed-confirmed' }] });
+    expect((list.body.records as { code: { id: string } }[]).some((r) => r.code.id === running.body.code.id)).toBe(false);
     const actions = app.database.sqlite.prepare("SELECT count(*) FROM audit_events WHERE code_id = ? AND action = 'record.signed'").pluck().get(id);
     expect(actions).toBe(2);
 

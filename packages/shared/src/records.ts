@@ -1,6 +1,6 @@
 import { z } from 'zod';
-import { patientSchema } from './codes.js';
-import { OUTCOMES } from './entries.js';
+import { patientSchema, type Code } from './codes.js';
+import { OUTCOMES, type StoredEntry } from './entries.js';
 
 /**
  * The signed record: review details completed after the code, signatures and their meanings
@@ -61,6 +61,48 @@ export interface RecordSignature {
   signedAt: string;
   /** The server signature verifies, names this record, and its digest is the record as it was at signing. */
   valid: boolean;
+  /** Who signed (a user id); on the record's own view, so a screen can tell "you signed this". */
+  signerId?: string;
+}
+
+export const RECORD_FORMAT = 'steadyhand-record/1';
+
+export interface RecordAttachment {
+  id: string;
+  sha256: string;
+  filename: string;
+  mediaType: string;
+  sizeBytes: number;
+  uploadedAt: string;
+}
+
+export type RecordCode = Code & { team: TeamMember[]; debriefNotes: string | null };
+
+/** Everything the signatures and the digest cover. */
+export interface CanonicalRecord {
+  format: typeof RECORD_FORMAT;
+  facility: string;
+  code: RecordCode;
+  /** Every stored entry (corrections and addenda included) in cursor order, with the server's fields. */
+  entries: StoredEntry[];
+  attachments: RecordAttachment[];
+}
+
+/** `GET /api/codes/:id/record`: the record, its digest now, its signatures and who wrote what. */
+export interface RecordView {
+  record: CanonicalRecord;
+  digest: string;
+  signatures: RecordSignature[];
+  status: RecordStatus;
+  /** userId → display name, for everyone who wrote an entry or signed. */
+  people: Record<string, string>;
+}
+
+/** `GET /api/records`: ended codes, newest first, with how far their record is signed. */
+export interface RecordListItem {
+  code: Code;
+  status: RecordStatus;
+  signatures: Pick<RecordSignature, 'printedName' | 'meaning' | 'meaningText' | 'signedAt'>[];
 }
 
 /** Verify by digest (and, optionally, the record id printed on the copy). */

@@ -17,11 +17,10 @@ import {
   type QualityStats,
 } from '@steadyhand/shared';
 import { AuditService } from '../audit/audit.service.js';
-import { verifyPassword } from '../auth/password.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { CodesRepository } from '../codes/codes.repository.js';
 import { ProtocolService } from '../protocol/protocol.service.js';
-import { UsersRepository } from '../users/users.repository.js';
+import { UsersService } from '../users/users.service.js';
 import { QualityRepository } from './quality.repository.js';
 
 @Injectable()
@@ -30,7 +29,7 @@ export class QualityService {
     @Inject(QualityRepository) private readonly repo: QualityRepository,
     @Inject(CodesRepository) private readonly codes: CodesRepository,
     @Inject(ProtocolService) private readonly protocol: ProtocolService,
-    @Inject(UsersRepository) private readonly users: UsersRepository,
+    @Inject(UsersService) private readonly users: UsersService,
     @Inject(AuditService) private readonly audit: AuditService,
   ) {}
 
@@ -113,12 +112,7 @@ export class QualityService {
   async signOff(user: SessionUser, id: string, password: string): Promise<QualityReview> {
     this.endedCode(id);
     if (this.reviewOf(id).reviewedAt) throw new ConflictException('This review is signed off already');
-    const row = this.users.findById(user.id);
-    if (!row || !(await verifyPassword(password, row.passwordHash))) {
-      this.audit.record({ action: 'quality.sign-off-failed', userId: user.id, username: user.username, codeId: id, detail: { reason: 'password does not match' } });
-      // 403, not 401: a mistyped password must not sign the person out of the page.
-      throw new ForbiddenException({ statusCode: 403, error: 'password', message: 'The password does not match. Nothing was signed.' });
-    }
+    await this.users.confirmPassword(user, password, { failedAction: 'quality.sign-off-failed', codeId: id });
     // Checked again after the slow hash: another reviewer may have signed meanwhile.
     if (this.reviewOf(id).reviewedAt) throw new ConflictException('This review is signed off already');
     const now = new Date().toISOString();

@@ -1,29 +1,9 @@
 import { createHash } from 'node:crypto';
 import canonicalize from 'canonicalize';
-import type { Code, SignatureMeaning, StoredEntry, TeamMember } from '@steadyhand/shared';
+import type { CanonicalRecord, SignatureMeaning } from '@steadyhand/shared';
 
-export const RECORD_FORMAT = 'steadyhand-record/1';
-
-export interface RecordAttachment {
-  id: string;
-  sha256: string;
-  filename: string;
-  mediaType: string;
-  sizeBytes: number;
-  uploadedAt: string;
-}
-
-export type RecordCode = Code & { team: TeamMember[]; debriefNotes: string | null };
-
-/** Everything the signatures and the digest cover. */
-export interface CanonicalRecord {
-  format: typeof RECORD_FORMAT;
-  facility: string;
-  code: RecordCode;
-  /** Every stored entry (corrections and addenda included) in cursor order, with the server's fields. */
-  entries: StoredEntry[];
-  attachments: RecordAttachment[];
-}
+// The record's shape is shared with the screens; the server adds how it is hashed and signed.
+export { RECORD_FORMAT, type CanonicalRecord, type RecordAttachment, type RecordCode } from '@steadyhand/shared';
 
 /** RFC 8785 (JSON Canonicalization Scheme): the same record always gives the same bytes. */
 export function canonicalText(value: unknown): string {

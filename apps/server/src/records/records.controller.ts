@@ -7,6 +7,8 @@ import {
   verifyRecordSchema,
   WRITER_ROLES,
   type NewEntry,
+  type RecordListItem,
+  type RecordView,
   type RecordSignature,
   type RecordStatus,
   type ReviewDetailsRequest,
@@ -20,7 +22,7 @@ import { CurrentUser, Roles } from '../auth/auth.decorators.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { ZodValidationPipe } from '../common/zod-validation.pipe.js';
 import type { RecordCode } from './record-canonical.js';
-import { RecordsService, type RecordView } from './records.service.js';
+import { RecordsService } from './records.service.js';
 
 const [RECORDER, LEADER] = WRITER_ROLES as ['recorder', 'leader'];
 /** A printed record with hundreds of entries and a few pages is well under this. */
@@ -64,6 +66,12 @@ export class RecordsController {
     const result = this.records.addAddendum(user, id, entry);
     if (result.duplicate) res.status(200);
     return { entry: result.entry };
+  }
+
+  @Roles('any')
+  @Get('records')
+  list(): { records: RecordListItem[] } {
+    return { records: this.records.list() };
   }
 
   @Roles('any')

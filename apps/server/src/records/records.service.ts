@@ -6,7 +6,6 @@ import {
   Injectable,
   NotFoundException,
   Optional,
-  UnauthorizedException,
 } from '@nestjs/common';
 import {
   hasAnyRole,
@@ -15,7 +14,9 @@ import {
   SIGNATURE_MEANING_TEXT,
   summarizeCode,
   type NewEntry,
+  type RecordListItem,
   type RecordSignature,
+  type RecordView,
   type RecordStatus,
   type ReviewDetailsRequest,
   type SignRecordRequest,
@@ -24,7 +25,6 @@ import {
   type VerifyRecordResult,
 } from '@steadyhand/shared';
 import { AuditService } from '../audit/audit.service.js';
-import { verifyPassword } from '../auth/password.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { CodesRepository } from '../codes/codes.repository.js';
 import { EntriesService } from '../codes/entries.service.js';
@@ -51,13 +51,6 @@ import {
 import { loadOrCreateRecordKeys, signText, verifyText, type RecordKeys } from './record-keys.js';
 import { buildRecordPdf, renderPdf } from './record-pdf.js';
 import { SignaturesRepository, type SignatureRow } from './signatures.repository.js';
-
-export interface RecordView {
-  record: CanonicalRecord;
-  digest: string;
-  signatures: RecordSignature[];
-  status: RecordStatus;
-}
 
 @Injectable()
 export class RecordsService {
@@ -142,9 +135,23 @@ export class RecordsService {
         meaningText: SIGNATURE_MEANING_TEXT[r.meaning],
         signedAt: r.signedAt,
         valid: this.signatureValid(r, record),
+        signerId: r.userId,
       })),
       status: this.statusOf(rows),
+      people: Object.fromEntries(this.peopleOf(record, rows)),
     };
+  }
+
+  /** Ended codes, newest first, each with how far its record is signed (for "records to sign"). */
+  list(limit = 200): RecordListItem[] {
+    return this.codes.listCodes('ended', limit).map((code) => {
+      const rows = this.signatures.ofCode(code.id);
+      return {
+        code,
+        status: this.statusOf(rows),
+        signatures: rows.map((r) => ({ printedName: r.printedName, meaning: r.meaning, meaningText: SIGNATURE_MEANING_TEXT[r.meaning], signedAt: r.signedAt })),
+      };
+    });
   }
 
   // --- review details ------------------------------------------------------------------------
@@ -209,11 +216,7 @@ export class RecordsService {
     }
 
     // 21 CFR 11.200: the password again at the moment of signing.
-    const row = this.users.findByUsername(user.username);
-    if (!row || !(await verifyPassword(body.password, row.passwordHash))) {
-      this.audit.record({ action: 'record.sign-failed', userId: user.id, username: user.username, codeId: id, detail: { meaning: body.meaning, reason: 'password does not match' } });
-      throw new UnauthorizedException('password does not match');
-    }
+    await this.users.confirmPassword(user, body.password, { failedAction: 'record.sign-failed', codeId: id, detail: { meaning: body.meaning } });
 
     // After the await: checked again, since another signature may have landed meanwhile.
     if (this.signatures.ofCode(id).some((r) => r.meaning === body.meaning || r.userId === user.id)) {
@@ -311,9 +314,9 @@ export class RecordsService {
     return Intl.DateTimeFormat().resolvedOptions().timeZone;
   }
 
-  private peopleOf(record: CanonicalRecord): Map<string, string> {
+  private peopleOf(record: CanonicalRecord, signatureRows: SignatureRow[] = []): Map<string, string> {
     const rows = this.db.select({ id: users.id, displayName: users.displayName }).from(users).all();
-    const ids = new Set(record.entries.map((e) => e.userId));
+    const ids = new Set([...record.entries.map((e) => e.userId), ...signatureRows.map((r) => r.userId)]);
     return new Map(rows.filter((r) => ids.has(r.id)).map((r) => [r.id, r.displayName]));
   }
 

@@ -90,6 +90,7 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
   // The fixture code is still running: signing and addenda answer 409 to those allowed.
   'POST /api/codes/:id/signatures': { allowed: ['recorder', 'leader'], body: { meaning: 'recorded-by', password: TEST_PASSWORD } },
   'POST /api/codes/:id/addenda': { allowed: ['recorder', 'leader'], body: () => makeEntry({ kind: 'note', text: 'matrix addendum' }) },
+  'GET /api/records': { allowed: 'any' },
   'GET /api/codes/:id/record': { allowed: 'any' },
   'GET /api/codes/:id/record.pdf': { allowed: 'any' },
   'GET /api/records/public-key': { allowed: 'any' },
