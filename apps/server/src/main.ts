@@ -5,6 +5,9 @@ import { DemoService } from './demo/demo.service.js';
 async function main(): Promise<void> {
   const config = loadConfig();
   const { app } = await createApp(config);
+  // Lifecycle hooks first (the development mail relay among them), so the demo's signed codes
+  // can send their mail while the demo loads.
+  await app.init();
   if (config.demo) await app.get(DemoService).seedIfEmpty();
   if (config.host) await app.listen(config.port, config.host);
   else await app.listen(config.port);

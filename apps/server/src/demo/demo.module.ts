@@ -1,7 +1,9 @@
 import { Module } from '@nestjs/common';
+import { CodesModule } from '../codes/codes.module.js';
+import { RecordsModule } from '../records/records.module.js';
 import { UsersModule } from '../users/users.module.js';
 import { DemoController } from './demo.controller.js';
 import { DemoService } from './demo.service.js';
 
-@Module({ imports: [UsersModule], controllers: [DemoController], providers: [DemoService], exports: [DemoService] })
+@Module({ imports: [UsersModule, CodesModule, RecordsModule], controllers: [DemoController], providers: [DemoService], exports: [DemoService] })
 export class DemoModule {}
