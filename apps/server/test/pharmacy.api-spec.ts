@@ -3,7 +3,7 @@ import { randomUUID } from 'node:crypto';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { RESTOCK_CSV_COLUMNS, type ReconciliationView, type WorklistItem } from '@steadyhand/shared';
+import { RESTOCK_CSV_COLUMNS, type ReconciliationView, type TrayItem, type WorklistItem } from '@steadyhand/shared';
 import { SMTPServer } from 'smtp-server';
 import type { Response } from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -49,6 +49,11 @@ describe('pharmacy: trays, worklist, reconciliation, sign-off, restock list', ()
   const send = (who: SignedInAgent, method: 'post' | 'put', url: string, body: object) => who.agent[method](url).set('x-csrf-token', who.csrf).send(body);
   const view = (res: Response) => res.body as ReconciliationView;
   const row = (v: ReconciliationView, key: string) => v.rows.find((r) => r.drugKey === key);
+  // Expiry dates relative to today (UTC, as the server reads them), away from the 30-day edge.
+  const inDays = (days: number) => new Date(Date.now() + days * 86_400_000).toISOString().slice(0, 10);
+  const farExpiry = inDays(400);
+  const soonExpiry = inDays(10);
+  const pastExpiry = inDays(-5);
 
   async function endedCode(arrestAt: string, drugs: [string, number, 'mg' | 'meq'][], sign: boolean): Promise<string> {
     const res = await send(recorder, 'post', '/api/codes', { category: 'adult', unitId, location: '4 West Medical bed 12', arrestAt }).expect(201);
@@ -95,21 +100,58 @@ describe('pharmacy: trays, worklist, reconciliation, sign-off, restock list', ()
     const created = await send(admin, 'post', '/api/pharmacy/trays', {
       name: 'Adult tray',
       items: [
-        { drugKey: 'epinephrine', label: 'Epinephrine', strengthAmount: 1, strengthUnit: 'mg', volumeMl: 10, quantity: 10 },
-        { drugKey: 'amiodarone', label: 'Amiodarone', strengthAmount: 150, strengthUnit: 'mg', volumeMl: 3, quantity: 4 },
+        { drugKey: 'epinephrine', label: 'Epinephrine', strengthAmount: 1, strengthUnit: 'mg', volumeMl: 10, quantity: 10, lot: ' EPI-T-0411 ', expiry: farExpiry },
+        { drugKey: 'amiodarone', label: 'Amiodarone', strengthAmount: 150, strengthUnit: 'mg', volumeMl: 3, quantity: 4, lot: 'AMI-T-2207', expiry: soonExpiry },
         // Counted by volume: 8.4% is 1 mEq/mL (common practice), so 50 mEq is one syringe.
-        { drugKey: 'sodium-bicarbonate', label: 'Sodium bicarbonate 8.4%', strengthAmount: 50, strengthUnit: 'mL', quantity: 2 },
-        { drugKey: 'naloxone', label: 'Naloxone', strengthAmount: 0.4, strengthUnit: 'mg', quantity: 2 },
+        { drugKey: 'sodium-bicarbonate', label: 'Sodium bicarbonate 8.4%', strengthAmount: 50, strengthUnit: 'mL', quantity: 2, lot: '' },
+        { drugKey: 'naloxone', label: 'Naloxone', strengthAmount: 0.4, strengthUnit: 'mg', quantity: 2, lot: 'NAL-T-0930', expiry: pastExpiry },
+        // Never opened below; on the restock list only because its lot expires soon.
+        { drugKey: 'atropine', label: 'Atropine', strengthAmount: 1, strengthUnit: 'mg', volumeMl: 10, quantity: 3, lot: 'ATR-T-1150', expiry: inDays(20) },
       ],
     }).expect(201);
     trayId = (created.body as { tray: { id: string } }).tray.id;
     await send(admin, 'put', `/api/pharmacy/units/${unitId}/tray`, { trayId }).expect(200);
     const list = await pharmacist.agent.get('/api/pharmacy/trays').expect(200);
     expect(list.body.units).toEqual([{ id: unitId, name: '4 West Medical', trayId, trayName: 'Adult tray' }]);
-    expect(list.body.trays[0].items.map((i: { drugKey: string }) => i.drugKey)).toEqual(['epinephrine', 'amiodarone', 'sodium-bicarbonate', 'naloxone']);
+    const items = (list.body as { trays: { items: TrayItem[] }[] }).trays[0]?.items ?? [];
+    expect(items.map((i) => i.drugKey)).toEqual(['epinephrine', 'amiodarone', 'sodium-bicarbonate', 'naloxone', 'atropine']);
+    expect(items.map((i) => [i.lot, i.expiry])).toEqual([
+      ['EPI-T-0411', farExpiry],
+      ['AMI-T-2207', soonExpiry],
+      [null, null],
+      ['NAL-T-0930', pastExpiry],
+      ['ATR-T-1150', inDays(20)],
+    ]);
     const duplicate = await send(admin, 'post', '/api/pharmacy/trays', { name: 'Adult tray', items: [{ drugKey: 'naloxone', label: 'N', strengthAmount: 0.4, strengthUnit: 'mg', quantity: 1 }] });
     expect(duplicate.status).toBe(409);
     await send(pharmacist, 'post', '/api/pharmacy/trays', { name: 'x', items: [] }).expect(403);
+  });
+
+  it('refuses a bad expiry or an over-long lot with a 400 that names the field, and audits lot changes with what they replace', async () => {
+    const item = { drugKey: 'adenosine', label: 'Adenosine', strengthAmount: 6, strengthUnit: 'mg', volumeMl: 2, quantity: 5 };
+    for (const expiry of ['2027-02-30', '31/03/2027']) {
+      const bad = await send(admin, 'post', '/api/pharmacy/trays', { name: 'Lot tray', items: [{ ...item, expiry }] }).expect(400);
+      expect(bad.body.message).toBe('items.0.expiry: must be a date, YYYY-MM-DD, e.g. 2027-03-31');
+    }
+    const long = await send(admin, 'post', '/api/pharmacy/trays', { name: 'Lot tray', items: [{ ...item, lot: 'L'.repeat(41) }] }).expect(400);
+    expect(long.body.message).toBe('items.0.lot: must be at most 40 characters');
+
+    const created = await send(admin, 'post', '/api/pharmacy/trays', { name: 'Lot tray', active: false, items: [{ ...item, lot: 'ADE-T-0101', expiry: farExpiry }] }).expect(201);
+    const tray = (created.body as { tray: { id: string; items: TrayItem[] } }).tray;
+    expect(tray.items[0]).toMatchObject({ lot: 'ADE-T-0101', expiry: farExpiry });
+    const itemId = tray.items[0]?.id;
+    const changed = await send(admin, 'put', `/api/pharmacy/trays/${tray.id}`, { name: 'Lot tray', active: false, items: [{ ...item, id: itemId, lot: 'ADE-T-0202', expiry: soonExpiry }] }).expect(200);
+    expect((changed.body as { tray: { items: TrayItem[] } }).tray.items[0]).toMatchObject({ id: itemId, lot: 'ADE-T-0202', expiry: soonExpiry });
+    const audits = app.app
+      .get<symbol, Db>(DB)
+      .select()
+      .from(auditEvents)
+      .all()
+      .filter((e) => (e.detail as { trayId?: string } | null)?.trayId === tray.id);
+    expect(audits.map((e) => [e.action, e.detail?.lots])).toEqual([
+      ['tray.created', [{ drugKey: 'adenosine', lot: 'ADE-T-0101', expiry: farExpiry, was: null }]],
+      ['tray.changed', [{ drugKey: 'adenosine', lot: 'ADE-T-0202', expiry: soonExpiry, was: { lot: 'ADE-T-0101', expiry: farExpiry } }]],
+    ]);
   });
 
   it('lists ended codes awaiting reconciliation oldest first, with counts and whether the record is signed', async () => {
@@ -168,9 +210,15 @@ describe('pharmacy: trays, worklist, reconciliation, sign-off, restock list', ()
     expect(csv.headers['content-disposition']).toMatch(/attachment; filename="restock-4-west-medical-.*\.csv"/);
     const lines = (csv.text).trim().split('\r\n');
     expect(lines[0]).toBe(RESTOCK_CSV_COLUMNS.join(','));
-    expect(lines).toContain('4 West Medical,Adult tray,Epinephrine,1 mg in 10 mL,no,10,2,0,2,EP2291,,');
-    expect(lines).toContain('4 West Medical,Adult tray,Amiodarone,150 mg in 3 mL,no,4,3,0,3,,,');
-    expect(lines).toHaveLength(5);
+    // The lot and expiry on the tray now, a flag when it has expired or expires within 30 days;
+    // new_lot and new_expiry blank for the person restocking.
+    expect(lines).toContain(`4 West Medical,Adult tray,Epinephrine,1 mg in 10 mL,no,10,2,0,2,EP2291,EPI-T-0411,${farExpiry},,,`);
+    expect(lines).toContain(`4 West Medical,Adult tray,Amiodarone,150 mg in 3 mL,no,4,3,0,3,,AMI-T-2207,${soonExpiry},expires within 30 days,,`);
+    expect(lines).toContain('4 West Medical,Adult tray,Sodium bicarbonate 8.4%,50 mL,no,2,1,0,1,,,,,,');
+    expect(lines).toContain(`4 West Medical,Adult tray,Naloxone,0.4 mg,no,2,1,0,1,,NAL-T-0930,${pastExpiry},expired,,`);
+    // Nothing opened, but its lot expires soon: on the list to swap.
+    expect(lines).toContain(`4 West Medical,Adult tray,Atropine,1 mg in 10 mL,no,3,0,0,0,,ATR-T-1150,${inDays(20)},expires within 30 days,,`);
+    expect(lines).toHaveLength(6);
 
     const pdf = await pharmacist.agent.get(`/api/codes/${older}/reconciliation/restock.pdf`).buffer(true).parse((res, cb) => {
       const chunks: Buffer[] = [];
@@ -183,15 +231,18 @@ describe('pharmacy: trays, worklist, reconciliation, sign-off, restock list', ()
     const text = execFileSync('/usr/bin/pdftotext', ['-layout', file, '-'], { encoding: 'utf8' });
     expect(text).toContain('Code-cart restock list');
     expect(text).toContain('4 West Medical');
-    expect(text).toMatch(/Epinephrine\s+1 mg in 10 mL\s+10\s+2\s+0\s+2\s+EP2291/);
+    expect(text).toMatch(/Epinephrine\s+1 mg in 10 mL\s+10\s+2\s+0\s+2\s+EP2291\s+EPI-T-0411\s+\d{4}-\d\d-\d\d/);
+    expect(text).toMatch(/NAL-T-0930\s+\d{4}-\d\d-\d\d/);
+    expect(text).toContain('EXPIRED');
+    expect(text).toMatch(/EXPIRES\s+WITHIN/);
     expect(text).toContain('DRAFT, not signed off');
     expect(text).toContain('Given more than opened');
     expect(text).toContain('page 1 of 1');
   });
 
   it('refuses a sign-off with the wrong password, signs with the right one, audits it and mails the discrepancies', async () => {
-    const wrong = await send(pharmacist, 'post', `/api/codes/${older}/reconciliation/sign`, { password: 'not the password' }).expect(400);
-    expect(wrong.body.message).toMatch(/password/);
+    const wrong = await send(pharmacist, 'post', `/api/codes/${older}/reconciliation/sign`, { password: 'not the password' }).expect(403);
+    expect(wrong.body).toMatchObject({ error: 'password', message: 'The password does not match. Nothing was signed.' });
     expect(view(await pharmacist.agent.get(`/api/codes/${older}/reconciliation`)).status).toBe('draft');
 
     const signed = view(await send(pharmacist, 'post', `/api/codes/${older}/reconciliation/sign`, { password: TEST_PASSWORD }).expect(200));
@@ -223,6 +274,18 @@ describe('pharmacy: trays, worklist, reconciliation, sign-off, restock list', ()
     const tray = (await pharmacist.agent.get('/api/pharmacy/trays')).body.trays[0] as { items: { strengthAmount: number }[] };
     await send(admin, 'put', `/api/pharmacy/trays/${trayId}`, { name: 'Adult tray', items: tray.items.map((i, n) => ({ ...i, id: undefined, sortOrder: undefined, strengthAmount: n === 0 ? 2 : i.strengthAmount })) }).expect(200);
     expect(row(view(await pharmacist.agent.get(`/api/codes/${older}/reconciliation`)), 'epinephrine')?.strength).toBe('1 mg in 10 mL');
+
+    // Restocked: the admin writes the new lot on the tray item; the signed counts stay, the
+    // restock list shows the lot the cart carries now.
+    const edited = (await pharmacist.agent.get('/api/pharmacy/trays')).body.trays.find((t: { id: string }) => t.id === trayId) as { items: TrayItem[] };
+    await send(admin, 'put', `/api/pharmacy/trays/${trayId}`, {
+      name: 'Adult tray',
+      items: edited.items.map(({ sortOrder: _s, ...i }) => (i.drugKey === 'naloxone' ? { ...i, lot: 'NAL-T-1201', expiry: farExpiry } : i)),
+    }).expect(200);
+    const signedView = view(await pharmacist.agent.get(`/api/codes/${older}/reconciliation`));
+    expect(row(signedView, 'naloxone')).toMatchObject({ strength: '0.4 mg', trayLot: 'NAL-T-1201', trayExpiry: farExpiry });
+    const csv = (await pharmacist.agent.get(`/api/codes/${older}/reconciliation/restock.csv`).expect(200)).text;
+    expect(csv).toContain(`Naloxone,0.4 mg,no,2,1,0,1,,NAL-T-1201,${farExpiry},,,`);
   });
 
   it('refuses to reconcile a code that is still running', async () => {

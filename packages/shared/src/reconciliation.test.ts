@@ -3,8 +3,10 @@ import type { LogEntry } from './effective-log.js';
 import { DEFAULT_PROTOCOL } from './protocol.js';
 import {
   convertToItemUnit,
+  expiryNote,
   reconcileDrugs,
   reconciliationCounts,
+  restockRows,
   saveReconciliationSchema,
   trayTemplateInputSchema,
   type ReconciledDrug,
@@ -24,6 +26,8 @@ const item = (fields: Partial<TrayItem> & Pick<TrayItem, 'drugKey' | 'strengthAm
   quantity: 2,
   controlled: false,
   sortOrder: n,
+  lot: null,
+  expiry: null,
   ...fields,
 });
 
@@ -174,5 +178,47 @@ describe('reconciliation schemas', () => {
     const save = saveReconciliationSchema.safeParse({ lines: [{ drugKey: 'epinephrine', unitsOpened: 1, unitsWasted: 2 }] });
     expect(save.success).toBe(false);
     expect(save.error?.issues[0]?.message).toMatch(/wasted/);
+  });
+});
+
+describe('tray item lot and expiry', () => {
+  const base = { drugKey: 'epinephrine', label: 'Epinephrine', strengthAmount: 1, strengthUnit: 'mg', quantity: 10 } as const;
+  const parse = (extra: object) => trayTemplateInputSchema.safeParse({ name: 'Tray', items: [{ ...base, ...extra }] });
+
+  it('takes a trimmed lot and a calendar date; blank or missing is null', () => {
+    expect(parse({ lot: '  EP2291 ', expiry: '2028-02-29' }).data?.items[0]).toMatchObject({ lot: 'EP2291', expiry: '2028-02-29' });
+    expect(parse({ lot: '   ', expiry: null }).data?.items[0]).toMatchObject({ lot: null, expiry: null });
+    expect(parse({}).data?.items[0]).toMatchObject({ lot: null, expiry: null });
+  });
+
+  it('refuses an expiry that is not a real YYYY-MM-DD date, and a lot over 40 characters, saying which field', () => {
+    for (const expiry of ['2027-02-30', '31/03/2027', '2027-3-31', '']) {
+      const result = parse({ expiry });
+      expect(result.success).toBe(false);
+      expect(result.error?.issues[0]).toMatchObject({ path: ['items', 0, 'expiry'], message: 'must be a date, YYYY-MM-DD, e.g. 2027-03-31' });
+    }
+    expect(parse({ lot: 'L'.repeat(41) }).error?.issues[0]).toMatchObject({ path: ['items', 0, 'lot'], message: 'must be at most 40 characters' });
+    expect(parse({ lot: 'L'.repeat(40) }).success).toBe(true);
+  });
+
+  it('flags an expiry that has passed, or falls within 30 days (a unit is usable through its expiry date)', () => {
+    const today = '2026-12-02';
+    expect(expiryNote('2026-12-01', today)).toBe('expired');
+    expect(expiryNote('2026-12-02', today)).toBe('expires within 30 days');
+    expect(expiryNote('2027-01-01', today)).toBe('expires within 30 days');
+    expect(expiryNote('2027-01-02', today)).toBeNull();
+    expect(expiryNote(null, today)).toBeNull();
+  });
+
+  it('carries the tray lot into each row, and lists an expiring item on the restock list even when none was opened', () => {
+    const epi = { ...EPI, lot: 'EP2291', expiry: '2027-06-30' };
+    const atropine = { ...ATROPINE, lot: 'AT0415', expiry: '2026-12-20' };
+    const rows = reconcileDrugs({ drugTotals: [total('epinephrine', 1, 'mg')], items: [epi, atropine, NALOXONE], lines: [line('epinephrine', 1)] });
+    expect(one(rows, 'epinephrine')).toMatchObject({ trayLot: 'EP2291', trayExpiry: '2027-06-30' });
+    expect(one(rows, 'naloxone')).toMatchObject({ trayLot: null, trayExpiry: null });
+    expect(restockRows(rows, '2026-12-02').map((r) => r.drugKey)).toEqual(['epinephrine', 'atropine']);
+    // A tray item frozen by a sign-off before lots existed has neither field.
+    const { lot: _lot, expiry: _expiry, ...old } = EPI;
+    expect(one(reconcileDrugs({ drugTotals: [], items: [old as TrayItem], lines: [] }), 'epinephrine')).toMatchObject({ trayLot: null, trayExpiry: null });
   });
 });

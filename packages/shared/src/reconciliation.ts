@@ -12,6 +12,8 @@ import type { DrugTotal } from './summary.js';
 
 // ---------------------------------------------------------------- tray templates
 
+export const TRAY_LOT_MAX = 40;
+
 export const trayItemInputSchema = z
   .object({
     /** Kept when an existing item is edited, so reconciliation lines keep pointing at it. */
@@ -27,6 +29,16 @@ export const trayItemInputSchema = z
     quantity: z.number().int().min(0).max(500),
     /** Controlled drugs: waste needs a witness, and they are reconciled first. */
     controlled: z.boolean().default(false),
+    /** Lot (batch) number of the units now on the tray; blank is no lot recorded. */
+    lot: z
+      .string({ message: 'must be text, e.g. EP2291' })
+      .trim()
+      .max(TRAY_LOT_MAX, `must be at most ${TRAY_LOT_MAX} characters`)
+      .transform((v) => (v === '' ? null : v))
+      .nullable()
+      .default(null),
+    /** Expiry date of the units now on the tray (the earliest, when lots are mixed). */
+    expiry: z.iso.date({ message: 'must be a date, YYYY-MM-DD, e.g. 2027-03-31' }).nullable().default(null),
   })
   .strict();
 export type TrayItemInput = z.input<typeof trayItemInputSchema>;
@@ -60,6 +72,9 @@ export interface TrayItem {
   quantity: number;
   controlled: boolean;
   sortOrder: number;
+  lot: string | null;
+  /** YYYY-MM-DD. */
+  expiry: string | null;
 }
 
 export interface TrayTemplate {
@@ -77,6 +92,25 @@ export interface PharmacyUnit {
   name: string;
   trayId: string | null;
   trayName: string | null;
+}
+
+/** Within this many days of its expiry a tray item is flagged for replacement. */
+export const EXPIRY_WARNING_DAYS = 30;
+
+export const EXPIRY_NOTES = ['expired', 'expires within 30 days'] as const;
+export type ExpiryNote = (typeof EXPIRY_NOTES)[number];
+
+/**
+ * "expired" once the expiry date has passed (a unit is usable through its expiry date),
+ * "expires within 30 days" up to 30 days before it, else null. Dates are YYYY-MM-DD; `today`
+ * is the caller's (the server uses the UTC date).
+ */
+export function expiryNote(expiry: string | null | undefined, today: string): ExpiryNote | null {
+  if (!expiry) return null;
+  if (expiry < today) return 'expired';
+  const limit = new Date(`${today}T00:00:00Z`);
+  limit.setUTCDate(limit.getUTCDate() + EXPIRY_WARNING_DAYS);
+  return expiry <= limit.toISOString().slice(0, 10) ? 'expires within 30 days' : null;
 }
 
 export const unitTrayInputSchema = z.object({ trayId: z.string().min(1).max(64).nullable() }).strict();
@@ -209,6 +243,9 @@ export interface ReconciledDrug {
   par: number | null;
   wasteWitness: string | null;
   lotNumbers: string | null;
+  /** The tray item's lot and expiry (YYYY-MM-DD) on the tray template; null when not known. */
+  trayLot: string | null;
+  trayExpiry: string | null;
   note: string | null;
   /** Problems first; `balanced` alone when all is well. */
   discrepancies: Discrepancy[];
@@ -341,6 +378,9 @@ function reconcileOne({ drugKey, label, item, recorded, line, catalogue }: OneIn
     par: item?.quantity ?? null,
     wasteWitness: witness,
     lotNumbers: line?.lotNumbers ?? null,
+    // `??`: items frozen by a sign-off before trays had lots carry neither field.
+    trayLot: item?.lot ?? null,
+    trayExpiry: item?.expiry ?? null,
     note: line?.note ?? null,
     touched: doses > 0 || unitsOpened > 0,
   };
@@ -479,6 +519,14 @@ export interface WorklistItem {
   discrepancies: number;
 }
 
+/**
+ * The restock list: items with units to put back, and items whose lot on the tray has expired or
+ * expires within 30 days (to swap even when none was opened).
+ */
+export function restockRows(rows: readonly ReconciledDrug[], today: string): ReconciledDrug[] {
+  return rows.filter((r) => r.restock > 0 || expiryNote(r.trayExpiry, today) !== null);
+}
+
 /** The restock list's CSV columns, in order (documented in docs/api.md). */
 export const RESTOCK_CSV_COLUMNS = [
   'unit',
@@ -491,6 +539,9 @@ export const RESTOCK_CSV_COLUMNS = [
   'units_wasted',
   'restock_units',
   'lots_used',
+  'current_lot',
+  'current_expiry',
+  'expiry_note',
   'new_lot',
   'new_expiry',
 ] as const;

@@ -35,6 +35,8 @@ function toItem(row: typeof trayItems.$inferSelect): TrayItem {
     quantity: row.quantity,
     controlled: row.controlled,
     sortOrder: row.sortOrder,
+    lot: row.lot,
+    expiry: row.expiry,
   };
 }
 

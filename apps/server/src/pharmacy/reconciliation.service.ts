@@ -3,9 +3,11 @@ import { BadRequestException, ConflictException, ForbiddenException, Inject, Inj
 import {
   DISCREPANCY_WORDS,
   hasAnyRole,
+  expiryNote,
   reconcileDrugs,
   reconciliationCounts,
   RESTOCK_CSV_COLUMNS,
+  restockRows,
   UNIT_WORDS,
   formatAmount,
   type Code,
@@ -20,7 +22,6 @@ import {
 } from '@steadyhand/shared';
 import type { z } from 'zod';
 import { AuditService } from '../audit/audit.service.js';
-import { verifyPassword } from '../auth/password.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { CodesService } from '../codes/codes.service.js';
 import { ProtocolService } from '../protocol/protocol.service.js';
@@ -110,11 +111,7 @@ export class ReconciliationService {
     const code = this.codes.get(codeId);
     this.assertOpen(code);
     // The password again at the moment of signing, as for the record's signatures.
-    const row = this.users.findByUsername(user.username);
-    if (!row || !(await verifyPassword(password, row.passwordHash))) {
-      this.audit.record({ action: 'reconciliation.sign-failed', userId: user.id, username: user.username, codeId, detail: { reason: 'password does not match' } });
-      throw new BadRequestException('password does not match');
-    }
+    await this.users.confirmPassword(user, password, { failedAction: 'reconciliation.sign-failed', codeId });
     if (!this.repo.findReconciliation(codeId)) {
       this.repo.saveDraft({ codeId, userId: user.id, trayId: this.defaultTrayId(code), notes: null, lines: [] }, new Date().toISOString(), randomUUID);
     }
@@ -148,9 +145,13 @@ export class ReconciliationService {
     const { view, unitName } = this.compute(codeId);
     const unit = unitName ?? view.code.location ?? 'unknown unit';
     const tray = view.tray?.name ?? 'no tray';
-    const lines = view.rows
-      .filter((r) => r.restock > 0)
-      .map((r) => [unit, tray, r.label, r.strength ?? 'not on tray', r.controlled ? 'yes' : 'no', r.par ?? '', r.unitsOpened, r.unitsWasted, r.restock, r.lotNumbers ?? '', '', '']);
+    const today = new Date().toISOString().slice(0, 10);
+    const lines = restockRows(view.rows, today).map((r) => {
+      const counts = [r.par ?? '', r.unitsOpened, r.unitsWasted, r.restock];
+      const onTray = [r.trayLot ?? '', r.trayExpiry ?? '', expiryNote(r.trayExpiry, today) ?? ''];
+      // new_lot and new_expiry stay blank: the person restocking writes them in.
+      return [unit, tray, r.label, r.strength ?? 'not on tray', r.controlled ? 'yes' : 'no', ...counts, r.lotNumbers ?? '', ...onTray, '', ''];
+    });
     const body = [RESTOCK_CSV_COLUMNS, ...lines].map((cells) => cells.map(csvCell).join(',')).join('\r\n') + '\r\n';
     return { filename: `restock-${slug(unit)}-${view.code.arrestAt.slice(0, 10)}.csv`, body };
   }
@@ -215,6 +216,7 @@ export class ReconciliationService {
     const snapshot = rec?.status === 'signed' ? (this.repo.signedSnapshot(codeId) as SignedSnapshot | undefined) : undefined;
     if (snapshot) {
       ({ trayId, trayName, items, drugTotals } = snapshot);
+      items = withCurrentLots(items, trays.find((t) => t.id === trayId)?.items ?? []);
       recordChanged = totalsKey(snapshot.drugTotals) !== totalsKey(currentTotals);
       // Addenda replace the signed line of each drug they name, in the order written.
       const byDrug = new Map(snapshot.lines.map((l) => [l.drugKey, l]));
@@ -291,6 +293,17 @@ export class ReconciliationService {
   private facilityName(): string {
     return this.repo.facilityName();
   }
+}
+
+/**
+ * Signed items with the lot and expiry the tray's item for that drug carries now (the restock
+ * list shows what is on the cart); a drug gone from the tray keeps what was signed, if anything.
+ */
+function withCurrentLots(items: TrayItem[], trayNow: TrayItem[]): TrayItem[] {
+  return items.map((item) => {
+    const current = trayNow.find((i) => i.id === item.id) ?? trayNow.find((i) => i.drugKey === item.drugKey);
+    return { ...item, lot: current ? current.lot : (item.lot ?? null), expiry: current ? current.expiry : (item.expiry ?? null) };
+  });
 }
 
 // eslint-disable-next-line no-control-regex

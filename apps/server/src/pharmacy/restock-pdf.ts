@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
-import { DISCREPANCY_WORDS, type ReconciledDrug } from '@steadyhand/shared';
+import { DISCREPANCY_WORDS, expiryNote, restockRows, type ReconciledDrug } from '@steadyhand/shared';
 import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interfaces.js';
 
 const require = createRequire(import.meta.url);
@@ -45,8 +45,15 @@ const when = (iso: string) => `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC`;
 
 export async function renderRestockPdf(input: RestockPdfInput): Promise<Buffer> {
   configure();
-  const restock = input.rows.filter((r) => r.restock > 0);
-  const header: TableCell[] = ['Drug', 'Strength', 'Par', 'Opened', 'Wasted', 'Restock', 'Lots used', 'New lot', 'New expiry', 'Done'].map((text) => ({ text, bold: true }));
+  const today = input.printedAt.slice(0, 10);
+  const restock = restockRows(input.rows, today);
+  const header: TableCell[] = ['Drug', 'Strength', 'Par', 'Opened', 'Wasted', 'Restock', 'Lots used', 'Lot on tray', 'Expiry', 'New lot', 'New expiry', 'Done'].map(
+    (text) => ({ text, bold: true }),
+  );
+  const expiryCell = (r: ReconciledDrug): TableCell => {
+    const note = expiryNote(r.trayExpiry, today);
+    return note ? { text: [r.trayExpiry ?? '', '\n', { text: note.toUpperCase(), bold: true, fontSize: 9 }] } : (r.trayExpiry ?? '');
+  };
   const body: TableCell[][] = [
     header,
     ...restock.map((r): TableCell[] => [
@@ -57,6 +64,8 @@ export async function renderRestockPdf(input: RestockPdfInput): Promise<Buffer> 
       String(r.unitsWasted),
       { text: String(r.restock), bold: true },
       r.lotNumbers ?? '',
+      r.trayLot ?? '',
+      expiryCell(r),
       '',
       '',
       '____',
@@ -69,8 +78,8 @@ export async function renderRestockPdf(input: RestockPdfInput): Promise<Buffer> 
     { text: `Code ${input.codeId}, arrest ${when(input.arrestAt)}${input.location ? `, ${input.location}` : ''}`, fontSize: 9 },
     { text: `Reconciliation: ${input.status}`, fontSize: 9, margin: [0, 0, 0, 10] },
     restock.length
-      ? { table: { headerRows: 1, widths: ['*', 'auto', 'auto', 'auto', 'auto', 'auto', 'auto', 55, 55, 'auto'], body }, layout: 'lightHorizontalLines' }
-      : { text: 'Nothing was opened from this tray: nothing to restock.' },
+      ? { table: { headerRows: 1, widths: ['*', 'auto', 'auto', 'auto', 'auto', 'auto', 'auto', 'auto', 88, 55, 55, 'auto'], body }, layout: 'lightHorizontalLines', fontSize: 9 }
+      : { text: 'Nothing was opened from this tray and no lot on it expires within 30 days: nothing to restock.' },
     { text: flagged.length ? 'Discrepancies to resolve' : 'No discrepancies', style: 'section' },
     ...flagged.map((r): Content => ({ text: `PROBLEM: ${r.label}: ${r.discrepancies.map((d) => `${DISCREPANCY_WORDS[d.kind]}. ${d.message}`).join(' ')}`, margin: [0, 2, 0, 2] })),
     { text: '\nRestocked by: ______________________   Checked by: ______________________   Date/time: ______________', margin: [0, 16, 0, 0] },

@@ -29,6 +29,9 @@ export const trayItems = sqliteTable(
     quantity: integer('quantity').notNull(),
     controlled: integer('controlled', { mode: 'boolean' }).notNull().default(false),
     sortOrder: integer('sort_order').notNull().default(0),
+    /** Lot number and expiry date (YYYY-MM-DD) of the units now on the tray, when known. */
+    lot: text('lot'),
+    expiry: text('expiry'),
   },
   (t) => [index('tray_items_tray_idx').on(t.trayId)],
 );

@@ -17,6 +17,7 @@ import { ErrorMessage } from '../../../components/ui/error-message';
 import { restockHref, useSaveReconciliation } from '../api/pharmacy-api';
 import { AddendumForm } from './addendum-form';
 import { DiscrepancyList } from './discrepancy-badge';
+import { ExpiryBadge } from './expiry-badge';
 import { SignOffDialog } from './sign-off-dialog';
 
 const count = z.number({ error: 'enter a number' }).int('whole units').min(0, 'not below 0').max(500);
@@ -242,6 +243,7 @@ function DrugRow({ row, index, register, errors }: DrugRowProps) {
             ) : null}
           </HStack>
           <Text color="fg.muted">{row.strength ? `${row.strength} · tray holds ${row.par ?? 0}` : 'Not on this tray'}</Text>
+          <TrayLot row={row} />
           <Text data-testid={`given-${row.drugKey}`}>
             <Text as="span" fontWeight="bold">
               Given:{' '}
@@ -275,6 +277,20 @@ function DrugRow({ row, index, register, errors }: DrugRowProps) {
   );
 }
 
+/** The lot and expiry on the tray now, flagged when expired or expiring within 30 days. */
+function TrayLot({ row }: { row: ReconciledDrug }) {
+  if (!row.trayLot && !row.trayExpiry) return null;
+  return (
+    <HStack gap="2" wrap="wrap" data-testid={`tray-lot-${row.drugKey}`}>
+      <Text color="fg.muted" textStyle="sm">
+        On the tray: {row.trayLot ? `lot ${row.trayLot}` : 'lot not recorded'}
+        {row.trayExpiry ? ` · expiry ${row.trayExpiry}` : ''}
+      </Text>
+      <ExpiryBadge expiry={row.trayExpiry} />
+    </HStack>
+  );
+}
+
 function SignedSheet({ view }: { view: ReconciliationView }) {
   return (
     <Stack gap="5">
@@ -302,6 +318,7 @@ function SignedSheet({ view }: { view: ReconciliationView }) {
                   {row.label} {row.controlled ? <Badge colorPalette="purple">Controlled</Badge> : null}
                 </Heading>
                 <Text color="fg.muted">{row.strength ?? 'Not on this tray'}</Text>
+                <TrayLot row={row} />
                 <Text>Given: {givenWords(row)}</Text>
               </Stack>
               <Text>

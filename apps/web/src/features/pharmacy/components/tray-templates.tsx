@@ -6,6 +6,7 @@ import { Controller, useFieldArray, useForm } from 'react-hook-form';
 import type { z } from 'zod';
 import { ErrorMessage } from '../../../components/ui/error-message';
 import { useAssignTray, useSaveTray } from '../api/pharmacy-api';
+import { ExpiryBadge } from './expiry-badge';
 
 /** Tray templates and cart assignments; admins edit, pharmacists read. */
 export function TrayTemplates({ trays, units, canEdit }: { trays: TrayTemplate[]; units: PharmacyUnit[]; canEdit: boolean }) {
@@ -52,6 +53,8 @@ export function TrayTemplates({ trays, units, canEdit }: { trays: TrayTemplate[]
                   <Table.ColumnHeader>Strength</Table.ColumnHeader>
                   <Table.ColumnHeader textAlign="end">Quantity</Table.ColumnHeader>
                   <Table.ColumnHeader>Controlled</Table.ColumnHeader>
+                  <Table.ColumnHeader>Lot</Table.ColumnHeader>
+                  <Table.ColumnHeader>Expiry</Table.ColumnHeader>
                 </Table.Row>
               </Table.Header>
               <Table.Body>
@@ -61,6 +64,13 @@ export function TrayTemplates({ trays, units, canEdit }: { trays: TrayTemplate[]
                     <Table.Cell>{formatStrength(item)}</Table.Cell>
                     <Table.Cell textAlign="end">{item.quantity}</Table.Cell>
                     <Table.Cell>{item.controlled ? 'Yes' : 'No'}</Table.Cell>
+                    <Table.Cell>{item.lot ?? 'Not recorded'}</Table.Cell>
+                    <Table.Cell data-testid={`expiry-${tray.name}-${item.drugKey}`}>
+                      <HStack gap="2" wrap="wrap">
+                        <Text as="span">{item.expiry ?? 'Not recorded'}</Text>
+                        <ExpiryBadge expiry={item.expiry} />
+                      </HStack>
+                    </Table.Cell>
                   </Table.Row>
                 ))}
               </Table.Body>
@@ -68,8 +78,9 @@ export function TrayTemplates({ trays, units, canEdit }: { trays: TrayTemplate[]
           </Box>
         ))}
         <Text color="fg.muted" textStyle="sm">
-          Lot numbers and expiry dates are written per code on the reconciliation and on the printed restock list. Strengths are set by your
-          pharmacy; the demo tray uses common practice.
+          Lot and expiry are those of the units now on the tray: update them when the cart is restocked. An item that has expired or expires
+          within 30 days is flagged here and on the restock list. Lots opened at a code are written on its reconciliation. Strengths are set by
+          your pharmacy; the demo tray uses common practice.
         </Text>
       </Stack>
     </Stack>
@@ -115,7 +126,8 @@ function UnitAssignments({ trays, units, canEdit }: { trays: TrayTemplate[]; uni
 type TrayForm = z.input<typeof trayTemplateInputSchema>;
 type TrayOutput = z.output<typeof trayTemplateInputSchema>;
 
-const blankItem = { drugKey: '', label: '', strengthAmount: 1, strengthUnit: 'mg' as const, volumeMl: null, quantity: 1, controlled: false };
+const blankItem = { drugKey: '', label: '', strengthAmount: 1, strengthUnit: 'mg' as const, volumeMl: null, quantity: 1, controlled: false, lot: null, expiry: null };
+const nullIfEmpty = (v: string | null) => (v === '' || v === null ? null : v);
 
 function TrayEditor({ tray, onDone }: { tray: TrayTemplate | null; onDone: () => void }) {
   const save = useSaveTray();
@@ -173,6 +185,16 @@ function TrayEditor({ tray, onDone }: { tray: TrayTemplate | null; onDone: () =>
               <Field.Root w="5rem" invalid={e?.quantity !== undefined}>
                 <Field.Label>Qty</Field.Label>
                 <Input type="number" {...form.register(`items.${i}.quantity`, { valueAsNumber: true })} />
+              </Field.Root>
+              <Field.Root w="9rem" invalid={e?.lot !== undefined}>
+                <Field.Label>Lot</Field.Label>
+                <Input {...form.register(`items.${i}.lot`, { setValueAs: nullIfEmpty })} autoComplete="off" />
+                <Field.ErrorText>{e?.lot?.message}</Field.ErrorText>
+              </Field.Root>
+              <Field.Root w="10rem" invalid={e?.expiry !== undefined}>
+                <Field.Label>Expiry</Field.Label>
+                <Input type="date" {...form.register(`items.${i}.expiry`, { setValueAs: nullIfEmpty })} />
+                <Field.ErrorText>{e?.expiry?.message}</Field.ErrorText>
               </Field.Root>
               <Controller
                 control={form.control}
