@@ -20,7 +20,8 @@ describe('the demo hospital', () => {
   afterAll(() => app.close());
 
   it('loads past codes through the real services: one waiting to be signed, two signed that verify', async () => {
-    const list = (await recorder.agent.get('/api/records').expect(200)).body.records as ListedRecord[];
+    const list = (await recorder.agent.get('/api/records').expect(200)).body
+      .records as ListedRecord[];
     expect(list.map((r) => [r.code.location, r.status])).toEqual([
       ['4 West Medical, bed 12', 'draft'],
       ['Cardiac Step-Down 3B, room 7', 'signed'],
@@ -42,19 +43,27 @@ describe('the demo hospital', () => {
     expect(summary.firstRhythm).toBe('vf');
 
     for (const signed of list.slice(1)) {
-      const record = (await recorder.agent.get(`/api/codes/${signed.code.id}/record`).expect(200)).body;
-      expect(record.signatures.map((s: { meaning: string; valid: boolean }) => [s.meaning, s.valid])).toEqual([
+      const record = (await recorder.agent.get(`/api/codes/${signed.code.id}/record`).expect(200))
+        .body;
+      expect(
+        record.signatures.map((s: { meaning: string; valid: boolean }) => [s.meaning, s.valid]),
+      ).toEqual([
         ['recorded-by', true],
         ['reviewed-confirmed', true],
       ]);
-      const verified = await recorder.agent.post('/api/records/verify').set('x-csrf-token', recorder.csrf).send({ digest: record.digest }).expect(200);
+      const verified = await recorder.agent
+        .post('/api/records/verify')
+        .set('x-csrf-token', recorder.csrf)
+        .send({ digest: record.digest })
+        .expect(200);
       expect(verified.body.valid).toBe(true);
     }
   });
 
   it('loads only into an empty database', async () => {
     expect(await app.app.get(DemoService).seedIfEmpty()).toBe(false);
-    const list = (await recorder.agent.get('/api/records').expect(200)).body.records as ListedRecord[];
+    const list = (await recorder.agent.get('/api/records').expect(200)).body
+      .records as ListedRecord[];
     expect(list).toHaveLength(3);
   });
 });

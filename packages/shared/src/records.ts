@@ -76,6 +76,16 @@ export interface RecordAttachment {
   uploadedAt: string;
 }
 
+/** An attachment as the attachments routes list it: the record's fields, plus who uploaded it. */
+export interface CodeAttachment extends RecordAttachment {
+  codeId: string;
+  /** The uploader's display name. */
+  uploadedBy: string;
+}
+
+/** Attachment types the server accepts, checked from the bytes. */
+export const ATTACHMENT_MEDIA_TYPES = ['image/png', 'image/jpeg', 'image/webp', 'application/pdf'] as const;
+
 export type RecordCode = Code & { team: TeamMember[]; debriefNotes: string | null };
 
 /** Everything the signatures and the digest cover. */

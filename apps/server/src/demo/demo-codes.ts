@@ -15,7 +15,9 @@ export interface DemoCode {
   daysAgo: number;
   clock: [hours: number, minutes: number, seconds: number];
   unit: string;
-  details: Omit<CreateCodeRequest, 'arrestAt' | 'id' | 'unitId'> & { category: 'adult' | 'pediatric' };
+  details: Omit<CreateCodeRequest, 'arrestAt' | 'id' | 'unitId'> & {
+    category: 'adult' | 'pediatric';
+  };
   /** Who recorded (a demo username); the device's name. */
   recordedBy: string;
   deviceId: string;
@@ -33,7 +35,11 @@ const fourWest: DemoCode = {
   daysAgo: 1,
   clock: [7, 42, 10],
   unit: '4 West Medical',
-  details: { category: 'adult', location: '4 West Medical, bed 12', patient: { name: 'Rowan Pellegrini', mrn: 'HG-204817', sex: 'male', birthDate: '1958-09-14' } },
+  details: {
+    category: 'adult',
+    location: '4 West Medical, bed 12',
+    patient: { name: 'Rowan Pellegrini', mrn: 'HG-204817', sex: 'male', birthDate: '1958-09-14' },
+  },
   recordedBy: 'maren.holt',
   deviceId: 'tablet-4w',
   steps: [
@@ -53,7 +59,10 @@ const fourWest: DemoCode = {
     [hms(0, 5, 56), { kind: 'shock', joules: 200, synchronized: false }],
     [hms(0, 5, 58), { kind: 'cpr', action: 'start' }],
     [hms(0, 6, 30), { kind: 'drug', drug: 'amiodarone', dose: 300, unit: 'mg', route: 'iv' }],
-    [hms(0, 7, 10), { kind: 'airway', device: 'endotracheal', confirmation: 'waveform-capnography' }],
+    [
+      hms(0, 7, 10),
+      { kind: 'airway', device: 'endotracheal', confirmation: 'waveform-capnography' },
+    ],
     [hms(0, 7, 30), { kind: 'etco2', mmHg: 18 }],
     [hms(0, 8, 0), { kind: 'cpr', action: 'stop', reason: 'rhythm-check' }],
     [hms(0, 8, 3), { kind: 'rhythm', rhythm: 'pea', pulse: false }],
@@ -79,7 +88,11 @@ const stepDown: DemoCode = {
   daysAgo: 3,
   clock: [14, 5, 0],
   unit: 'Cardiac Step-Down 3B',
-  details: { category: 'adult', location: 'Cardiac Step-Down 3B, room 7', patient: { name: 'Hester Quainton', mrn: 'HG-118342', sex: 'female', birthDate: '1941-02-03' } },
+  details: {
+    category: 'adult',
+    location: 'Cardiac Step-Down 3B, room 7',
+    patient: { name: 'Hester Quainton', mrn: 'HG-118342', sex: 'female', birthDate: '1941-02-03' },
+  },
   recordedBy: 'maren.holt',
   deviceId: 'tablet-3b',
   steps: [
@@ -97,11 +110,20 @@ const stepDown: DemoCode = {
     [hms(0, 8, 0), { kind: 'cpr', action: 'stop', reason: 'rhythm-check' }],
     [hms(0, 8, 4), { kind: 'rhythm', rhythm: 'pea', pulse: false }],
     [hms(0, 8, 6), { kind: 'cpr', action: 'start' }],
-    [hms(0, 9, 0), { kind: 'drug', drug: 'sodium-bicarbonate', dose: 50, unit: 'meq', route: 'io' }],
+    [
+      hms(0, 9, 0),
+      { kind: 'drug', drug: 'sodium-bicarbonate', dose: 50, unit: 'meq', route: 'io' },
+    ],
     [hms(0, 11, 50), { kind: 'drug', drug: 'epinephrine', dose: 1, unit: 'mg', route: 'io' }],
     [hms(0, 12, 6), { kind: 'cpr', action: 'stop', reason: 'rhythm-check' }],
     [hms(0, 12, 9), { kind: 'rhythm', rhythm: 'asystole', pulse: false }],
-    [hms(0, 12, 20), { kind: 'note', text: 'Family present; team agreed to stop after discussion with the family.' }],
+    [
+      hms(0, 12, 20),
+      {
+        kind: 'note',
+        text: 'Family present; team agreed to stop after discussion with the family.',
+      },
+    ],
     [hms(0, 13, 0), { kind: 'end', outcome: 'died' }],
   ],
   signedBy: { recorder: 'maren.holt', leader: 'kofi.asante' },
@@ -111,7 +133,8 @@ const stepDown: DemoCode = {
     { name: 'Tobias Wren, RN', role: 'Compressions' },
     { name: 'Dr Amara Lindqvist', role: 'Airway' },
   ],
-  debriefNotes: 'IO access placed quickly after two failed IV attempts. Next time: call for the IO kit with the cart.',
+  debriefNotes:
+    'IO access placed quickly after two failed IV attempts. Next time: call for the IO kit with the cart.',
 };
 
 /** A pediatric VF code (18 kg) on 5 East; signed by both. Doses follow the weight. */
@@ -119,7 +142,12 @@ const fiveEast: DemoCode = {
   daysAgo: 9,
   clock: [22, 17, 30],
   unit: 'Pediatric Ward 5 East',
-  details: { category: 'pediatric', weightKg: 18, location: 'Pediatric Ward 5 East, bed 3', patient: { name: 'Ilse Marchetti', mrn: 'HG-330571', sex: 'female', birthDate: '2020-06-21' } },
+  details: {
+    category: 'pediatric',
+    weightKg: 18,
+    location: 'Pediatric Ward 5 East, bed 3',
+    patient: { name: 'Ilse Marchetti', mrn: 'HG-330571', sex: 'female', birthDate: '2020-06-21' },
+  },
   recordedBy: 'maren.holt',
   deviceId: 'tablet-5e',
   steps: [
@@ -150,7 +178,8 @@ const fiveEast: DemoCode = {
     { name: 'Maren Holt, RN', role: 'Recorder' },
     { name: 'Noor Haddad, RN', role: 'Medications' },
   ],
-  debriefNotes: 'Weight from the ward chart (18 kg) was on the wall from the start; doses double-checked aloud.',
+  debriefNotes:
+    'Weight from the ward chart (18 kg) was on the wall from the start; doses double-checked aloud.',
 };
 
 export const DEMO_CODES: readonly DemoCode[] = [fourWest, stepDown, fiveEast];

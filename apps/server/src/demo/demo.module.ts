@@ -5,5 +5,10 @@ import { UsersModule } from '../users/users.module.js';
 import { DemoController } from './demo.controller.js';
 import { DemoService } from './demo.service.js';
 
-@Module({ imports: [UsersModule, CodesModule, RecordsModule], controllers: [DemoController], providers: [DemoService], exports: [DemoService] })
+@Module({
+  imports: [UsersModule, CodesModule, RecordsModule],
+  controllers: [DemoController],
+  providers: [DemoService],
+  exports: [DemoService],
+})
 export class DemoModule {}

@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { Inject, Injectable, Logger } from '@nestjs/common';
-import type { NewEntry, Role } from '@steadyhand/shared';
+import type { Role } from '@steadyhand/shared';
 import { APP_CONFIG } from '../config/config.module.js';
 import type { AppConfig } from '../config/config.js';
 import { DB } from '../db/database.module.js';
@@ -43,20 +43,38 @@ export class DemoService {
     if (this.users.count() > 0) return false;
     const now = new Date().toISOString();
     this.db.transaction((tx) => {
-      tx.insert(settings).values({ key: 'facility', value: { name: DEMO_FACILITY }, updatedAt: now }).onConflictDoNothing().run();
+      tx.insert(settings)
+        .values({ key: 'facility', value: { name: DEMO_FACILITY }, updatedAt: now })
+        .onConflictDoNothing()
+        .run();
       const unitIds: string[] = [];
       for (const name of DEMO_UNITS) {
         const id = randomUUID();
-        if (tx.insert(units).values({ id, name, createdAt: now }).onConflictDoNothing().run().changes === 1) unitIds.push(id);
+        if (
+          tx.insert(units).values({ id, name, createdAt: now }).onConflictDoNothing().run()
+            .changes === 1
+        )
+          unitIds.push(id);
       }
       seedDemoTray(tx, unitIds, now);
     });
     for (const person of DEMO_PEOPLE) {
-      await this.users.create({ ...person, password: DEMO_PASSWORD }, { userId: null, username: 'demo-loader' });
+      await this.users.create(
+        { ...person, password: DEMO_PASSWORD },
+        { userId: null, username: 'demo-loader' },
+      );
     }
-    const unitIds = new Map(this.db.select({ id: units.id, name: units.name }).from(units).all().map((u) => [u.name, u.id]));
+    const unitIds = new Map(
+      this.db
+        .select({ id: units.id, name: units.name })
+        .from(units)
+        .all()
+        .map((u) => [u.name, u.id]),
+    );
     for (const code of DEMO_CODES) await this.seedCode(code, unitIds);
-    this.logger.log(`Loaded the demo hospital: ${DEMO_PEOPLE.length} people, ${DEMO_UNITS.length} units, ${DEMO_CODES.length} past codes`);
+    this.logger.log(
+      `Loaded the demo hospital: ${DEMO_PEOPLE.length} people, ${DEMO_UNITS.length} units, ${DEMO_CODES.length} past codes`,
+    );
     return true;
   }
 
@@ -73,15 +91,35 @@ export class DemoService {
     day.setDate(day.getDate() - demo.daysAgo);
     day.setHours(...demo.clock, 0);
     const arrest = day.getTime();
-    const { code } = this.codes.create(recorder, { ...demo.details, unitId: unitIds.get(demo.unit), arrestAt: new Date(arrest).toISOString() });
+    const { code } = this.codes.create(recorder, {
+      ...demo.details,
+      unitId: unitIds.get(demo.unit),
+      arrestAt: new Date(arrest).toISOString(),
+    });
     demo.steps.forEach(([seconds, fields], seq) => {
       const at = new Date(arrest + seconds * 1000).toISOString();
-      this.entries.add(recorder, code.id, { ...fields, id: randomUUID(), at, deviceId: demo.deviceId, seq } as NewEntry, at);
+      this.entries.add(
+        recorder,
+        code.id,
+        { ...fields, id: randomUUID(), at, deviceId: demo.deviceId, seq },
+        at,
+      );
     });
     if (demo.team.length > 0 || demo.debriefNotes) {
-      this.records.updateReview(recorder, code.id, { team: demo.team, ...(demo.debriefNotes ? { debriefNotes: demo.debriefNotes } : {}) });
+      this.records.updateReview(recorder, code.id, {
+        team: demo.team,
+        ...(demo.debriefNotes ? { debriefNotes: demo.debriefNotes } : {}),
+      });
     }
-    if (demo.signedBy.recorder) await this.records.sign(person(demo.signedBy.recorder), code.id, { meaning: 'recorded-by', password: DEMO_PASSWORD });
-    if (demo.signedBy.leader) await this.records.sign(person(demo.signedBy.leader), code.id, { meaning: 'reviewed-confirmed', password: DEMO_PASSWORD });
+    if (demo.signedBy.recorder)
+      await this.records.sign(person(demo.signedBy.recorder), code.id, {
+        meaning: 'recorded-by',
+        password: DEMO_PASSWORD,
+      });
+    if (demo.signedBy.leader)
+      await this.records.sign(person(demo.signedBy.leader), code.id, {
+        meaning: 'reviewed-confirmed',
+        password: DEMO_PASSWORD,
+      });
   }
 }

@@ -32,6 +32,18 @@ export const routes: RouteObject[] = [
             lazy: () => import('./routes/codes/record'),
           },
           {
+            path: paths.codes.review.path,
+            lazy: () => import('./routes/codes/review'),
+          },
+          {
+            path: paths.records.list.path,
+            lazy: () => import('./routes/records/list'),
+          },
+          {
+            path: paths.records.verify.path,
+            lazy: () => import('./routes/records/verify'),
+          },
+          {
             path: paths.admin.protocol.path,
             lazy: () => import('./routes/admin/protocol'),
           },
@@ -43,6 +55,7 @@ export const routes: RouteObject[] = [
               { path: paths.admin.places.path, lazy: () => import('./routes/admin/places') },
               { path: paths.admin.sessions.path, lazy: () => import('./routes/admin/sessions') },
               { path: paths.admin.audit.path, lazy: () => import('./routes/admin/audit') },
+              { path: paths.admin.outbox.path, lazy: () => import('./routes/admin/outbox') },
             ],
           },
           {

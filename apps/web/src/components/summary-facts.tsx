@@ -1,8 +1,9 @@
 import { DataList, SimpleGrid } from '@chakra-ui/react';
 import { SUMMARY_DEFINITIONS, type CodeSummary } from '@steadyhand/shared';
-import { formatDateTime, formatPercent, formatSeconds, OUTCOME_WORDS, RHYTHM_WORDS } from './words';
+import { formatDateTime, formatPercent, formatSeconds } from '../lib/format';
+import { OUTCOME_WORDS, RHYTHM_WORDS } from '../lib/live/entry-words';
 
-/** The record's summary as the reviewer needs it: Utstein intervals, rhythm, ROSC, CPR quality. */
+/** The record's summary (review, quality): Utstein intervals, rhythm, ROSC, CPR quality; each fact's definition on hover. */
 export function SummaryFacts({ summary }: { summary: CodeSummary }) {
   const facts: [string, string, string][] = [
     ['Arrest recognised', formatDateTime(summary.times.arrestAt), SUMMARY_DEFINITIONS.arrestAt],
@@ -22,7 +23,7 @@ export function SummaryFacts({ summary }: { summary: CodeSummary }) {
     ['Drugs', summary.drugTotals.map((d) => `${d.label} ${d.total} ${d.unit} (${d.doses})`).join('; ') || 'None', SUMMARY_DEFINITIONS.drugTotals],
   ];
   return (
-    <DataList.Root orientation="horizontal" size="lg" data-testid="quality-summary">
+    <DataList.Root orientation="horizontal" size="lg" data-testid="code-summary">
       <SimpleGrid columns={{ base: 1, md: 2 }} gapX="8" gapY="3">
         {facts.map(([label, value, definition]) => (
           <DataList.Item key={label} title={definition}>

@@ -36,6 +36,11 @@ export const paths = {
       path: '/admin/audit',
       getHref: () => '/admin/audit',
     },
+    /** Mail caught by the development relay (FAKE_SMTP=1). */
+    outbox: {
+      path: '/admin/outbox',
+      getHref: () => '/admin/outbox',
+    },
   },
   account: {
     home: {
@@ -70,10 +75,27 @@ export const paths = {
       path: '/codes/:codeId/record',
       getHref: (codeId: string) => `/codes/${encodeURIComponent(codeId)}/record`,
     },
+    /** After the code: complete, correct, attach, sign and print its record. */
+    review: {
+      path: '/codes/:codeId/review',
+      getHref: (codeId: string) => `/codes/${encodeURIComponent(codeId)}/review`,
+    },
     /** The timer wall for one code: the leader's screen across the room. */
     wall: {
       path: '/codes/:codeId/wall',
       getHref: (codeId: string) => `/codes/${encodeURIComponent(codeId)}/wall`,
+    },
+  },
+  records: {
+    /** Ended codes and how far each record is signed. */
+    list: {
+      path: '/records',
+      getHref: () => '/records',
+    },
+    /** Anyone holding a printed record (or its digest) can check it here. */
+    verify: {
+      path: '/records/verify',
+      getHref: () => '/records/verify',
     },
   },
   /** The board of every live code, each card opening its wall. */

@@ -21,6 +21,19 @@ describe('api client', () => {
     expect(post?.[1]?.body).toBe('{"category":"adult"}');
   });
 
+  it('sends a FormData upload as it is, with the token and without a JSON content type', async () => {
+    const fetchMock = mockFetch((url) => (url === '/api/auth/csrf' ? { body: { token: 'tok-2' } } : { status: 201, body: { attachment: { id: 'a1' } } }));
+    const form = new FormData();
+    form.append('file', new Blob(['%PDF-1.4'], { type: 'application/pdf' }), 'strip.pdf');
+
+    await api.post('/api/codes/c1/attachments', form);
+
+    const post = fetchMock.mock.calls.find(([url]) => url === '/api/codes/c1/attachments');
+    expect(post?.[1]?.body).toBe(form);
+    expect(headerOf(post?.[1], 'content-type')).toBeNull();
+    expect(headerOf(post?.[1], 'x-csrf-token')).toBe('tok-2');
+  });
+
   it('fetches the token once and reuses it, and sends none on GET', async () => {
     const fetchMock = mockFetch((url) => (url === '/api/auth/csrf' ? { body: { token: 'tok-1' } } : { body: {} }));
 

@@ -134,13 +134,15 @@ function isStateChanging(method: Method): boolean {
 
 async function send(method: Method, path: string, options: RequestOptions, token: string | null): Promise<Response> {
   const headers: Record<string, string> = { accept: 'application/json' };
-  if (options.body !== undefined) headers['content-type'] = 'application/json';
+  // A FormData body (a file upload) sets its own multipart content type and boundary.
+  const isForm = typeof FormData !== 'undefined' && options.body instanceof FormData;
+  if (options.body !== undefined && !isForm) headers['content-type'] = 'application/json';
   if (token !== null) headers[CSRF_HEADER] = token;
   return fetch(path, {
     method,
     credentials: 'same-origin',
     headers,
-    body: options.body === undefined ? undefined : JSON.stringify(options.body),
+    body: options.body === undefined ? undefined : isForm ? (options.body as FormData) : JSON.stringify(options.body),
     signal: options.signal,
   });
 }

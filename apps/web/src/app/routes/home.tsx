@@ -6,6 +6,7 @@ import { PageTitle } from '../../components/ui/page-title';
 import { paths } from '../../config/paths';
 import { useCurrentUser } from '../../features/auth/hooks/use-current-user';
 import { LiveCodesPanel } from '../../features/codes/components/live-codes-panel';
+import { RecordsPanel } from '../../features/records/components/records-panel';
 
 // What each after-the-code job will find here; the pages themselves arrive later.
 const COMING_PANELS: Partial<Record<Role, { title: string; description: string }>> = {
@@ -54,8 +55,9 @@ export function Component() {
         )}
       </Stack>
 
-      <SimpleGrid columns={{ base: 1, lg: writerRoles.length > 0 && held.length > writerRoles.length ? 2 : 1 }} gap="6">
+      <SimpleGrid columns={{ base: 1, lg: writerRoles.length > 0 || held.length > 1 ? 2 : 1 }} gap="6">
         {writerRoles.length > 0 ? <LiveCodesPanel roles={writerRoles} /> : null}
+        {writerRoles.length > 0 ? <RecordsPanel roles={writerRoles} /> : null}
         {held.map((role) => {
           const panel = COMING_PANELS[role];
           return panel ? (
@@ -103,6 +105,11 @@ export function Component() {
           ) : null;
         })}
       </SimpleGrid>
+      {writerRoles.length === 0 ? (
+        <Button asChild variant="ghost" colorPalette="brand" alignSelf="start">
+          <RouterLink to={paths.records.verify.getHref()}>Check a printed code record</RouterLink>
+        </Button>
+      ) : null}
     </Stack>
   );
 }

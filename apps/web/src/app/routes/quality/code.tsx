@@ -1,6 +1,7 @@
 import { Box, Button, Heading, HStack, List, SimpleGrid, Stack, Text } from '@chakra-ui/react';
 import { SIGNATURE_MEANING_TEXT, type SignatureMeaning } from '@steadyhand/shared';
 import { Link as RouterLink, useParams } from 'react-router';
+import { SummaryFacts } from '../../../components/summary-facts';
 import { ErrorMessage } from '../../../components/ui/error-message';
 import { PageSpinner } from '../../../components/ui/page-status';
 import { PageTitle } from '../../../components/ui/page-title';
@@ -8,7 +9,6 @@ import { paths } from '../../../config/paths';
 import { useQualityCode } from '../../../features/quality/api/get-quality-code';
 import { QualityGate } from '../../../features/quality/components/quality-gate';
 import { ReviewPanel } from '../../../features/quality/components/review-panel';
-import { SummaryFacts } from '../../../features/quality/components/summary-facts';
 import { TargetList } from '../../../features/quality/components/target-list';
 import { formatDateTime } from '../../../features/quality/components/words';
 

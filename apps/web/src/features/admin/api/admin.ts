@@ -72,3 +72,22 @@ export function useAudit(filters: AuditFilters, page: number) {
     placeholderData: keepPreviousData,
   });
 }
+
+/** One message caught by the development mail relay (envelope addresses). */
+export interface OutboxMessage {
+  receivedAt: string;
+  from: string;
+  to: string[];
+  subject: string;
+  text: string;
+}
+
+export function useOutbox() {
+  return useQuery({
+    queryKey: ['admin', 'outbox'],
+    queryFn: async () => ((await api.get('/api/dev/outbox')) as { messages: OutboxMessage[] }).messages,
+    // 404 means this server sends real mail; asking again will not change that.
+    retry: false,
+    refetchInterval: 10_000,
+  });
+}

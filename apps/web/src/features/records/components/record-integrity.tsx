@@ -1,0 +1,38 @@
+import { Button, Code, Heading, HStack, Stack, Text } from '@chakra-ui/react';
+import type { RecordView } from '@steadyhand/shared';
+import { Link as RouterLink } from 'react-router';
+import { paths } from '../../../config/paths';
+import { recordPdfHref } from '../api/records-api';
+
+/** The printed copy and how anyone can check it: the digest of the record as it stands now. */
+export function RecordIntegrity({ view }: { view: RecordView }) {
+  const draft = view.status !== 'signed';
+  return (
+    <Stack as="section" gap="4" aria-labelledby="integrity-heading" data-testid="record-integrity">
+      <Heading as="h2" id="integrity-heading" textStyle="2xl">
+        The code record (PDF)
+      </Heading>
+      <Text>
+        {draft
+          ? 'Until both signatures are in, every page of the PDF is marked as a draft.'
+          : 'The PDF carries the signatures, the digest below and the server’s signature on every page.'}
+      </Text>
+      <Text textStyle="sm">
+        SHA-256 of the record now:{' '}
+        <Code wordBreak="break-all" data-testid="record-digest">
+          {view.digest}
+        </Code>
+      </Text>
+      <HStack gap="3" wrap="wrap">
+        <Button asChild colorPalette="brand" size="lg">
+          <a href={recordPdfHref(view.record.code.id)} download data-testid="record-pdf">
+            {draft ? 'Download the draft PDF' : 'Download the signed PDF'}
+          </a>
+        </Button>
+        <Button asChild variant="outline" size="lg">
+          <RouterLink to={paths.records.verify.getHref()}>Check a printed record</RouterLink>
+        </Button>
+      </HStack>
+    </Stack>
+  );
+}

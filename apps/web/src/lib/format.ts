@@ -1,0 +1,35 @@
+/** How times, durations and sizes read on every after-the-code screen. */
+
+/** "1:42"; a dash when not recorded. */
+export function formatSeconds(s: number | null | undefined): string {
+  if (s === null || s === undefined) return '—';
+  const total = Math.round(s);
+  return `${Math.floor(total / 60)}:${String(total % 60).padStart(2, '0')}`;
+}
+
+export function formatPercent(ratio: number | null | undefined): string {
+  return ratio === null || ratio === undefined ? '—' : `${Math.round(ratio * 100)}%`;
+}
+
+/** "4 Mar 2026, 07:42" in the reader's own time zone. */
+export function formatDateTime(iso: string | null | undefined): string {
+  if (!iso) return '—';
+  return new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' });
+}
+
+/** "07:42:10": a clock time to the second, for a timeline. */
+export function formatClockTime(iso: string): string {
+  return new Date(iso).toLocaleTimeString('en-GB', {
+    hour: '2-digit',
+    minute: '2-digit',
+    second: '2-digit',
+    hourCycle: 'h23',
+  });
+}
+
+/** "48 KB", "2.1 MB". */
+export function formatBytes(bytes: number): string {
+  if (bytes < 1024) return `${bytes} B`;
+  if (bytes < 1024 * 1024) return `${Math.round(bytes / 1024)} KB`;
+  return `${(bytes / (1024 * 1024)).toFixed(1)} MB`;
+}
