@@ -1,7 +1,7 @@
 import type { AdminUser, AuditPage, Places, SessionInfo } from '@steadyhand/shared';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { connected, connectLive, cookieHeader, type LiveClient } from './support/live-client.js';
+import { connected, connectLive, cookieHeader, refused, type LiveClient } from './support/live-client.js';
 import { addUser, csrfFor, signIn, startTestApp, TEST_PASSWORD, type SignedInAgent, type TestApp } from './support/test-app.js';
 
 const NEW_PASSWORD = 'a fresh passphrase of mine';
@@ -58,6 +58,10 @@ describe('admin: people, places, sessions and the audit trail', () => {
     const again = await signIn(app, 'nurse.one', 'temporary passphrase');
     const blocked = await again.agent.get('/api/codes').expect(403);
     expect(blocked.body.error).toBe('password-change-required');
+    // The live socket refuses the same session until the password is changed.
+    const early = connectLive(app.baseUrl, { origin: app.baseUrl, cookie: cookieHeader(again, app.baseUrl) });
+    sockets.push(early);
+    expect((await refused(early)).message).toMatch(/password-change-required/);
     expect((await again.agent.get('/api/auth/me').expect(200)).body.user.mustChangePassword).toBe(true);
 
     const tooCommon = await post(again, '/api/account/password', { currentPassword: 'temporary passphrase', newPassword: 'qwerty123456' }).expect(400);

@@ -89,6 +89,8 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
       const origin = req.headers.origin;
       if (origin && !this.config.allowedOrigins.includes(origin)) return next(new Error(`origin not allowed: ${origin}`));
       if (!req.user || !req.sessionID) return next(new Error('unauthorized: sign in first'));
+      // Like every REST route but the password change: a temporary password opens nothing else.
+      if (req.user.mustChangePassword) return next(new Error('password-change-required: choose a new password first'));
       socket.data = { sid: req.sessionID, userId: req.user.id };
       next();
     });

@@ -245,6 +245,9 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
             {snapshot.outcome ? `: ${OUTCOME_WORDS[snapshot.outcome]}` : ''}. Late entries can still
             be added.
           </Text>
+          <Button asChild colorPalette="brand" size="lg" mt="2" data-testid="ended-review">
+            <RouterLink to={paths.codes.review.getHref(code.id)}>Review and sign the record</RouterLink>
+          </Button>
         </Box>
       ) : null}
 
