@@ -54,7 +54,16 @@ describe('quality targets on worked cases', () => {
     const missed = targetsOf([e(60, { kind: 'rhythm', rhythm: 'pvt', pulse: false })], 400);
     expect(missed['time-to-shock']).toMatchObject({ applies: true, met: false, value: null, note: 'No shock was recorded.' });
     const rosc = targetsOf([e(60, { kind: 'rhythm', rhythm: 'vf', pulse: false }), e(90, { kind: 'rosc' })], 400);
-    expect(rosc['time-to-shock']).toMatchObject({ applies: false, met: null });
+    expect(rosc['time-to-shock']).toMatchObject({ applies: false, met: null, note: 'ROSC was reached without a shock.' });
+  });
+
+  it('says why the epinephrine target does or does not apply (same rule as the shock target, for PEA and asystole)', () => {
+    const none = targetsOf([e(60, { kind: 'rhythm', rhythm: 'asystole', pulse: false })], 900);
+    expect(none['time-to-epinephrine']).toMatchObject({ applies: true, met: false, value: null, note: 'No epinephrine was recorded.' });
+    const rosc = targetsOf([e(60, { kind: 'rhythm', rhythm: 'pea', pulse: false }), e(120, { kind: 'rosc' })], 900);
+    expect(rosc['time-to-epinephrine']).toMatchObject({ applies: false, met: null, note: 'ROSC was reached without epinephrine.' });
+    const vf = targetsOf([e(60, { kind: 'rhythm', rhythm: 'vf', pulse: false })], 900);
+    expect(vf['time-to-epinephrine']?.note).toBe('The first rhythm was not PEA or asystole.');
   });
 
   it('asystole with epinephrine at 3:00 meets, at 6:00 misses the 5-minute target (Donnino 2014 BMJ: median 3 min; OR 0.91 at 4-6 min)', () => {

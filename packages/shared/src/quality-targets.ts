@@ -9,7 +9,12 @@ import { PRE_SHOCK_PAUSE_TARGET_SECONDS } from './summary.js';
  * page and the monthly shares all apply the same rule.
  */
 
-export const QUALITY_TARGET_IDS = ['time-to-shock', 'time-to-epinephrine', 'compression-fraction', 'pre-shock-pause'] as const;
+export const QUALITY_TARGET_IDS = [
+  'time-to-shock',
+  'time-to-epinephrine',
+  'compression-fraction',
+  'pre-shock-pause',
+] as const;
 export type QualityTargetId = (typeof QUALITY_TARGET_IDS)[number];
 
 export interface QualityTargetSettings {
@@ -79,60 +84,83 @@ export const TARGET_SOURCES: Record<QualityTargetId, string> = {
     'Common quality-improvement target of under 10 s before each shock (Cheskes et al., Circulation 2011); AHA 2015/2020: keep it as short as possible. Clinical sheet §3, from memory: check against the primary text.',
 };
 
+/**
+ * "The first X within N seconds of the arrest, when the first rhythm is one of these": applies
+ * only to those rhythms; none recorded is a miss, unless ROSC came without it.
+ */
+function firstTimeTarget(t: {
+  id: 'time-to-shock' | 'time-to-epinephrine';
+  label: string;
+  rule: string;
+  rhythms: readonly Rhythm[];
+  rhythmWords: string;
+  what: string;
+  limitSeconds: number;
+  value: number | null;
+  rhythm: Rhythm | null;
+  anyRosc: boolean;
+}): TargetResult {
+  const inGroup = t.rhythm !== null && t.rhythms.includes(t.rhythm);
+  const exempt = inGroup && t.value === null && t.anyRosc;
+  const applies = inGroup && !exempt;
+  const none = t.what === 'a shock' ? 'No shock was recorded.' : `No ${t.what} was recorded.`;
+  return {
+    id: t.id,
+    label: t.label,
+    rule: t.rule,
+    source: TARGET_SOURCES[t.id],
+    applies,
+    met: applies ? t.value !== null && t.value <= t.limitSeconds : null,
+    value: t.value,
+    unit: 's',
+    note: !inGroup
+      ? `The first rhythm was not ${t.rhythmWords}.`
+      : exempt
+        ? `ROSC was reached without ${t.what}.`
+        : t.value === null
+          ? none
+          : null,
+  };
+}
+
 /** Evaluates every target from the stored numbers (the list and the monthly shares use this). */
-export function evaluateTargetInputs(inputs: TargetInputs, settings: QualityTargetSettings = DEFAULT_QUALITY_TARGETS): TargetResult[] {
+export function evaluateTargetInputs(
+  inputs: TargetInputs,
+  settings: QualityTargetSettings = DEFAULT_QUALITY_TARGETS,
+): TargetResult[] {
   const rhythm = inputs.firstRhythm;
   const results: TargetResult[] = [];
 
-  // Time to shock. A shockable rhythm with no shock is a miss, unless ROSC came without one.
-  {
-    const value = inputs.toFirstShockSeconds;
-    const shockable = rhythm !== null && SHOCKABLE.includes(rhythm);
-    const exempt = shockable && value === null && inputs.anyRosc;
-    const applies = shockable && !exempt;
-    results.push({
+  // Time to shock: a shockable rhythm with no shock is a miss, unless ROSC came without one.
+  results.push(
+    firstTimeTarget({
       id: 'time-to-shock',
       label: 'Time to first shock',
       rule: `First defibrillation within ${mmss(settings.shockSeconds)} of the arrest, when the first rhythm is VF or pVT.`,
-      source: TARGET_SOURCES['time-to-shock'],
-      applies,
-      met: applies ? value !== null && value <= settings.shockSeconds : null,
-      value,
-      unit: 's',
-      note: !shockable
-        ? 'The first rhythm was not VF or pVT.'
-        : exempt
-          ? 'ROSC was reached without a shock.'
-          : value === null
-            ? 'No shock was recorded.'
-            : null,
-    });
-  }
-
+      rhythms: SHOCKABLE,
+      rhythmWords: 'VF or pVT',
+      what: 'a shock',
+      limitSeconds: settings.shockSeconds,
+      value: inputs.toFirstShockSeconds,
+      rhythm,
+      anyRosc: inputs.anyRosc,
+    }),
+  );
   // Time to first epinephrine, for PEA and asystole (Donnino's nonshockable group).
-  {
-    const value = inputs.toFirstEpinephrineSeconds;
-    const nonshockable = rhythm !== null && NONSHOCKABLE.includes(rhythm);
-    const exempt = nonshockable && value === null && inputs.anyRosc;
-    const applies = nonshockable && !exempt;
-    results.push({
+  results.push(
+    firstTimeTarget({
       id: 'time-to-epinephrine',
       label: 'Time to first epinephrine',
       rule: `First epinephrine within ${mmss(settings.epinephrineSeconds)} of the arrest, when the first rhythm is PEA or asystole.`,
-      source: TARGET_SOURCES['time-to-epinephrine'],
-      applies,
-      met: applies ? value !== null && value <= settings.epinephrineSeconds : null,
-      value,
-      unit: 's',
-      note: !nonshockable
-        ? 'The first rhythm was not PEA or asystole.'
-        : exempt
-          ? 'ROSC was reached without epinephrine.'
-          : value === null
-            ? 'No epinephrine was recorded.'
-            : null,
-    });
-  }
+      rhythms: NONSHOCKABLE,
+      rhythmWords: 'PEA or asystole',
+      what: 'epinephrine',
+      limitSeconds: settings.epinephrineSeconds,
+      value: inputs.toFirstEpinephrineSeconds,
+      rhythm,
+      anyRosc: inputs.anyRosc,
+    }),
+  );
 
   {
     const value = inputs.compressionFraction;
@@ -168,7 +196,9 @@ export function evaluateTargetInputs(inputs: TargetInputs, settings: QualityTarg
 
 /** The numbers the targets need, read from a code's summary. */
 export function targetInputsOf(summary: CodeSummary): TargetInputs {
-  const pre = summary.shocks.map((s) => s.preShockPauseSeconds).filter((s): s is number => s !== null);
+  const pre = summary.shocks
+    .map((s) => s.preShockPauseSeconds)
+    .filter((s): s is number => s !== null);
   return {
     firstRhythm: summary.firstRhythm,
     anyRosc: summary.anyRosc,
@@ -180,7 +210,10 @@ export function targetInputsOf(summary: CodeSummary): TargetInputs {
 }
 
 /** Each target met or missed for one code, from its summary. */
-export function evaluateTargets(summary: CodeSummary, settings: QualityTargetSettings = DEFAULT_QUALITY_TARGETS): TargetResult[] {
+export function evaluateTargets(
+  summary: CodeSummary,
+  settings: QualityTargetSettings = DEFAULT_QUALITY_TARGETS,
+): TargetResult[] {
   return evaluateTargetInputs(targetInputsOf(summary), settings);
 }
 
