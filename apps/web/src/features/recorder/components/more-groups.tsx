@@ -1,10 +1,10 @@
-import { Button, SimpleGrid, Stack, Text } from '@chakra-ui/react';
+import { SimpleGrid, Stack, Text } from '@chakra-ui/react';
 import { OUTCOMES } from '@steadyhand/shared';
 import { useState } from 'react';
 import { AIRWAY_WORDS, OUTCOME_WORDS } from '../../../lib/live/entry-words';
 import { PadButton } from './pad-button';
+import { PadSwitch } from './pad-switch';
 import { PadGroup } from './pad-group';
-import { Shape } from '../../../components/ui/shapes';
 import type { Tap } from './types';
 
 export function AirwayGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
@@ -30,25 +30,15 @@ export function AirwayGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean
             }}
           />
         ))}
-        <Button
-          role="switch"
-          aria-checked={capno}
-          aria-label="Tube confirmed by waveform capnography"
-          data-testid="airway-capno"
-          minH="16"
-          h="auto"
-          whiteSpace="normal"
-          variant={capno ? 'solid' : 'outline'}
-          colorPalette={capno ? 'brand' : 'ink'}
-          bg={capno ? undefined : 'white'}
-          borderWidth="2px"
-          borderStyle={capno ? 'solid' : 'dashed'}
+        <PadSwitch
+          on={capno}
+          onToggle={setCapno}
+          label="Tube confirmed by waveform capnography"
+          onText="Capnography confirmed"
+          offText="Confirmed by capnography?"
           disabled={disabled}
-          onClick={() => setCapno((c) => !c)}
-        >
-          <Shape kind={capno ? 'check' : 'ring'} size="1.3em" />
-          {capno ? 'Capnography confirmed' : 'Confirmed by capnography?'}
-        </Button>
+          data-testid="airway-capno"
+        />
       </Stack>
     </PadGroup>
   );

@@ -246,7 +246,9 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
             be added.
           </Text>
           <Button asChild colorPalette="brand" size="lg" mt="2" data-testid="ended-review">
-            <RouterLink to={paths.codes.review.getHref(code.id)}>Review and sign the record</RouterLink>
+            <RouterLink to={paths.codes.review.getHref(code.id)}>
+              Review and sign the record
+            </RouterLink>
           </Button>
         </Box>
       ) : null}

@@ -1,10 +1,10 @@
-import { Button, SimpleGrid, Stack } from '@chakra-ui/react';
+import { SimpleGrid, Stack } from '@chakra-ui/react';
 import { RHYTHMS, SHOCKABLE_RHYTHMS } from '@steadyhand/shared';
 import { useState } from 'react';
 import { RHYTHM_WORDS } from '../../../lib/live/entry-words';
 import { PadButton } from './pad-button';
+import { PadSwitch } from './pad-switch';
 import { PadGroup } from './pad-group';
-import { Shape } from '../../../components/ui/shapes';
 import type { Tap } from './types';
 
 /** Set the pulse first if there is one (it starts at "no pulse"), then tap what the monitor shows. */
@@ -13,26 +13,15 @@ export function RhythmGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean
   return (
     <PadGroup title="Rhythm check" id="rhythm" accent="ink.500">
       <Stack gap="2">
-        <Button
-          role="switch"
-          aria-checked={pulse}
-          aria-label="Pulse present"
-          data-testid="rhythm-pulse"
-          minH="16"
-          h="auto"
-          w="full"
-          variant={pulse ? 'solid' : 'outline'}
-          colorPalette={pulse ? 'brand' : 'ink'}
-          bg={pulse ? undefined : 'white'}
-          borderWidth="2px"
-          borderStyle={pulse ? 'solid' : 'dashed'}
-          textStyle="lg"
+        <PadSwitch
+          on={pulse}
+          onToggle={setPulse}
+          label="Pulse present"
+          onText="Pulse: YES"
+          offText="Pulse: no"
           disabled={disabled}
-          onClick={() => setPulse((p) => !p)}
-        >
-          <Shape kind={pulse ? 'check' : 'ring'} size="1.4em" />
-          {pulse ? 'Pulse: YES' : 'Pulse: no'}
-        </Button>
+          data-testid="rhythm-pulse"
+        />
         <SimpleGrid columns={2} gap="2">
           {RHYTHMS.map((r) => {
             const shockable = SHOCKABLE_RHYTHMS.includes(r);

@@ -1,8 +1,8 @@
-import { Box, Button, SimpleGrid, Stack, Text } from '@chakra-ui/react';
+import { Box, SimpleGrid, Stack, Text } from '@chakra-ui/react';
 import type { DosingSheet, EnergyStep } from '@steadyhand/shared';
 import { PadButton } from './pad-button';
+import { PadSwitch } from './pad-switch';
 import { PadGroup } from './pad-group';
-import { Shape } from '../../../components/ui/shapes';
 import type { Tap } from './types';
 
 interface ShockGroupProps {
@@ -44,27 +44,17 @@ export function ShockGroup({
   return (
     <PadGroup title="Shock" id="shock" accent="signal.500">
       <Stack gap="2">
-        <Button
-          role="switch"
-          aria-checked={synchronized}
-          aria-label="Synchronised shock"
-          data-testid="shock-sync"
-          minH="16"
-          h="auto"
-          w="full"
-          variant="solid"
-          bg={synchronized ? 'signal.300' : 'ink.100'}
-          color="ink.950"
-          borderWidth="3px"
-          borderStyle={synchronized ? 'solid' : 'dashed'}
-          borderColor="ink.900"
-          textStyle="lg"
+        <PadSwitch
+          on={synchronized}
+          onToggle={onSynchronized}
+          label="Synchronised shock"
+          onText="SYNCHRONISED: ON"
+          offText="Synchronised: off"
+          onShape="triangle"
+          tone="signal"
           disabled={disabled}
-          onClick={() => onSynchronized(!synchronized)}
-        >
-          <Shape kind={synchronized ? 'triangle' : 'ring'} size="1.4em" />
-          {synchronized ? 'SYNCHRONISED: ON' : 'Synchronised: off'}
-        </Button>
+          data-testid="shock-sync"
+        />
         {pediatric ? (
           pedSteps.length > 0 ? (
             <SimpleGrid columns={1} gap="2">
