@@ -211,6 +211,8 @@ describe('the timer wall, in Chromium on a 1080p screen', () => {
     expect(await dosing.innerText()).toContain('0.01 mg/kg × 20 kg');
     expect(await dosing.innerText()).toContain('0.2 mg');
     expect(await dosing.innerText()).toMatch(/40 J/);
+    // The wall is read across the room: at 1920×1080 nothing may need scrolling, doses included.
+    expect(await wall.evaluate(() => document.documentElement.scrollHeight)).toBeLessThanOrEqual(1080);
     console.warn(`[screenshot] ${await screenshot(wall, 'wall-pediatric')}`);
     await wallCtx.close();
     await ctx.close();

@@ -408,7 +408,7 @@ function PediatricDosing({ code, sheet, s }: { code: Code; sheet: DosingSheet | 
           {code.weightKg !== null ? `${formatDose(code.weightKg)} kg` : 'Weight needed'}
         </Text>
       </Flex>
-      <Flex align="center" gap="2" color="signal.200" fontSize="1.5rem" fontWeight="bold" my="1">
+      <Flex align="center" gap="2" color="signal.200" fontSize="1.35rem" fontWeight="bold" my="1">
         <Shape kind="triangle" size="1.8rem" />
         <Text>{PEDIATRIC_DOSE_CAUTION}</Text>
       </Flex>
@@ -417,7 +417,7 @@ function PediatricDosing({ code, sheet, s }: { code: Code; sheet: DosingSheet | 
           {sheet?.message ?? 'Doses cannot be computed for this code.'}
         </Text>
       ) : (
-        <Stack gap="1">
+        <Stack gap="0.5">
           {sheet.drugs
             .filter((d) => d.doses.length > 0)
             .slice(0, 4)
@@ -426,11 +426,11 @@ function PediatricDosing({ code, sheet, s }: { code: Code; sheet: DosingSheet | 
               if (!line) return null;
               return (
                 <Box key={d.key}>
-                  <Text fontSize="1.8rem" fontWeight="bold" lineHeight="1.2">
+                  <Text fontSize="1.6rem" fontWeight="bold" lineHeight="1.15">
                     {d.label} dose {line.doseNumber}: {line.display}
                     {line.volumeText ? ` · ${line.volumeText}` : ''}
                   </Text>
-                  <Text fontSize="1.25rem" color="ink.100">
+                  <Text fontSize="1.15rem" lineHeight="1.3" color="ink.100">
                     {line.formula}
                     {line.capNote ? ` (${line.capNote})` : ''}
                   </Text>
@@ -442,11 +442,11 @@ function PediatricDosing({ code, sheet, s }: { code: Code; sheet: DosingSheet | 
             if (!step) return null;
             return (
               <Box key={mode}>
-                <Text fontSize="1.8rem" fontWeight="bold" lineHeight="1.2">
+                <Text fontSize="1.6rem" fontWeight="bold" lineHeight="1.15">
                   {mode === 'defibrillation' ? 'Shock (not synchronised)' : 'SYNCHRONISED cardioversion'}:{' '}
                   {step.display}
                 </Text>
-                <Text fontSize="1.25rem" color="ink.100">
+                <Text fontSize="1.15rem" lineHeight="1.3" color="ink.100">
                   {step.formula}
                   {step.capNote ? ` (${step.capNote})` : ''}
                 </Text>
@@ -454,7 +454,7 @@ function PediatricDosing({ code, sheet, s }: { code: Code; sheet: DosingSheet | 
             );
           })}
           <Text fontSize="1.1rem" color="ink.100">
-            Protocol {sheet.edition}. The defibrillator maker&apos;s settings come first.
+            The defibrillator maker&apos;s settings come first; protocol in the footer.
           </Text>
         </Stack>
       )}
