@@ -32,6 +32,7 @@ const WARMUP = Number(args.warmup);
 
 const { buildRecordPdf, renderPdf, describeEntry, sinceArrest } = await import(pathToFileURL(path.join(DIST, 'record-pdf.js')).href);
 const { recordDigest, pdfStampText, formatPdfStamp, RECORD_FORMAT } = await import(pathToFileURL(path.join(DIST, 'record-canonical.js')).href);
+const { CHAIN_START, entryLinkHash } = await import(pathToFileURL(path.join(DIST, '../codes/entry-chain.js')).href);
 const shared = await import(pathToFileURL(require.resolve('@steadyhand/shared')).href);
 const { DEFAULT_PROTOCOL, summarizeCode, effectiveEntries } = shared;
 
@@ -96,6 +97,8 @@ function makeCode() {
 }
 
 const record = makeCode();
+// The PDF prints the chain's head beside the digest.
+const chain = { valid: true, length: record.entries.length, head: record.entries.reduce((prev, e) => entryLinkHash(prev, e), CHAIN_START) };
 const { privateKey } = generateKeyPairSync('ed25519');
 
 async function recordPdf() {
@@ -105,7 +108,7 @@ async function recordPdf() {
   const signature = sign(null, Buffer.from(pdfStampText({ recordId: record.code.id, digest, generatedAt })), privateKey).toString('base64url');
   return renderPdf(
     buildRecordPdf({
-      record, digest, status: 'draft', summary, settings: DEFAULT_PROTOCOL, signatures: [], people, timeZone: 'UTC', generatedAt,
+      record, digest, chain, status: 'draft', summary, settings: DEFAULT_PROTOCOL, signatures: [], people, timeZone: 'UTC', generatedAt,
       stamp: formatPdfStamp({ recordId: record.code.id, digest, signature, generatedAt }),
     }),
   );

@@ -98,10 +98,31 @@ export interface CanonicalRecord {
   attachments: RecordAttachment[];
 }
 
+/** Where a code's entry chain first fails to check. */
+export interface EntryChainBreak {
+  /** 1-based position in the log (cursor order). */
+  position: number;
+  /** The entry at that position (or, past the end of the log, the entry the stray link names). */
+  entryId: string;
+  reason: string;
+}
+
+/**
+ * The hash chain over a code's entry log (one link per entry, each hash covering the previous
+ * hash and the stored entry), checked from the stored rows. `length`: links stored for the code;
+ * `head`: the last link's hash (null with no links). When `valid`, `length` is the number of
+ * entries and `head` commits to the whole log.
+ */
+export type EntryChainStatus =
+  | { valid: true; length: number; head: string | null }
+  | { valid: false; length: number; head: string | null; brokenAt: EntryChainBreak };
+
 /** `GET /api/codes/:id/record`: the record, its digest now, its signatures and who wrote what. */
 export interface RecordView {
   record: CanonicalRecord;
   digest: string;
+  /** The entry chain as checked now (not part of the record, so not covered by its digest). */
+  chain: EntryChainStatus;
   signatures: RecordSignature[];
   status: RecordStatus;
   /** userId → display name, for everyone who wrote an entry or signed. */

@@ -6,13 +6,14 @@ import { CodesController } from './codes.controller.js';
 import { CodesRepository } from './codes.repository.js';
 import { CodesService } from './codes.service.js';
 import { EntriesService } from './entries.service.js';
+import { EntryChainService } from './entry-chain.service.js';
 import { EntryEvents } from './entry-events.js';
 import { LiveGateway } from './live.gateway.js';
 
 @Module({
   imports: [AuthModule, UsersModule, ProtocolModule],
   controllers: [CodesController],
-  providers: [CodesRepository, CodesService, EntriesService, EntryEvents, LiveGateway],
+  providers: [CodesRepository, CodesService, EntriesService, EntryChainService, EntryEvents, LiveGateway],
   exports: [CodesService, CodesRepository, EntriesService, EntryEvents, LiveGateway],
 })
 export class CodesModule {}

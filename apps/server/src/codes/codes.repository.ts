@@ -1,10 +1,11 @@
-import { Inject, Injectable } from '@nestjs/common';
+import { BadRequestException, Inject, Injectable } from '@nestjs/common';
 import type { Code, CodeStatus, NewEntry, Outcome, StoredEntry } from '@steadyhand/shared';
 import { and, asc, desc, eq, gt } from 'drizzle-orm';
 import type { Statement } from 'better-sqlite3';
 import { DATABASE, DB } from '../db/database.module.js';
 import type { DatabaseHandle, Db } from '../db/database.js';
 import { codes, entries } from '../db/schema/index.js';
+import { CHAIN_START, entryLinkHash, type EntryLink } from './entry-chain.js';
 
 type CodeRow = typeof codes.$inferSelect;
 type EntryRow = typeof entries.$inferSelect;
@@ -72,6 +73,8 @@ export class CodesRepository {
     entryById: Statement<[string], RawEntryRow>;
     signed: Statement<[string], { one: number }>;
     insert: Statement<unknown[], { cursor: number }>;
+    lastLink: Statement<[string], { position: number; hash: string }>;
+    insertLink: Statement<[string, string, number, string, string]>;
   };
 
   constructor(
@@ -87,6 +90,9 @@ export class CodesRepository {
         `INSERT INTO entries (id, code_id, kind, at, at_ms, device_id, seq, offset_ms, offset_uncertainty_ms, user_id, received_at, recorded_at, addendum, body)
          VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING cursor`,
       ),
+      // A seek on the (code_id, position) unique index.
+      lastLink: sqlite.prepare('SELECT position, hash FROM entry_links WHERE code_id = ? ORDER BY position DESC LIMIT 1'),
+      insertLink: sqlite.prepare('INSERT INTO entry_links (entry_id, code_id, position, prev_hash, hash) VALUES (?, ?, ?, ?, ?)'),
     };
   }
 
@@ -136,8 +142,9 @@ export class CodesRepository {
   }
 
   /**
-   * Stores one entry, or finds the stored one with the same device-made id. Runs in one
-   * transaction, so the answer is given only after the row is committed.
+   * Stores one entry and its link in the code's hash chain, or finds the stored one with the same
+   * device-made id (no new link). Runs in one transaction, so the answer is given only after both
+   * rows are committed.
    */
   appendEntry(
     entry: NewEntry,
@@ -175,10 +182,70 @@ export class CodesRepository {
         recordedAt,
         addendum: meta.addendum,
       };
+      // Read after the insert took the write lock, so no other writer can take the same position.
+      this.appendLink(stored);
       afterInsert?.(stored);
       return { entry: stored, duplicate: false };
     });
     return commit();
+  }
+
+  /** Chains one stored entry after the code's last link. Call inside the entry's transaction. */
+  private appendLink(stored: StoredEntry): void {
+    const last = this.hot.lastLink.get(stored.codeId);
+    const prevHash = last?.hash ?? CHAIN_START;
+    let hash: string;
+    try {
+      hash = entryLinkHash(prevHash, stored);
+    } catch {
+      // RFC 8785 refuses text that is not well-formed Unicode (a lone surrogate). A 400 rolls the
+      // entry back and tells the device it was refused; a 500 would have it resent forever.
+      throw new BadRequestException('The entry holds text that is not well-formed Unicode (a lone surrogate); retype it');
+    }
+    this.hot.insertLink.run(stored.id, stored.codeId, (last?.position ?? 0) + 1, prevHash, hash);
+  }
+
+  /** The code's links in position order. */
+  linksOf(codeId: string): EntryLink[] {
+    return this.database.sqlite
+      .prepare<[string], EntryLink>(
+        'SELECT entry_id AS entryId, position, prev_hash AS prevHash, hash FROM entry_links WHERE code_id = ? ORDER BY position',
+      )
+      .all(codeId);
+  }
+
+  /**
+   * Links entries stored before the chain existed (or by a build without it): per code in cursor
+   * order, continuing from the code's last link. Inserts only. Returns how many links were added;
+   * a code whose entries cannot be hashed is left as it is and named in `failed`.
+   */
+  backfillLinks(): { added: number; codes: number; failed: { codeId: string; error: string }[] } {
+    const { sqlite } = this.database;
+    const codeIds = sqlite
+      .prepare<[], string>('SELECT DISTINCT e.code_id FROM entries e WHERE NOT EXISTS (SELECT 1 FROM entry_links l WHERE l.entry_id = e.id)')
+      .pluck()
+      .all();
+    const rowsOf = sqlite.prepare<[string], RawEntryRow>(
+      'SELECT e.* FROM entries e WHERE e.code_id = ? AND NOT EXISTS (SELECT 1 FROM entry_links l WHERE l.entry_id = e.id) ORDER BY e.cursor',
+    );
+    const linkCode = sqlite.transaction((codeId: string): number => {
+      const rows = rowsOf.all(codeId);
+      for (const row of rows) this.appendLink(fromRawEntry(row));
+      return rows.length;
+    });
+    let added = 0;
+    let linkedCodes = 0;
+    const failed: { codeId: string; error: string }[] = [];
+    for (const codeId of codeIds) {
+      try {
+        // Write lock first: another process on the file (the user:add command) cannot interleave.
+        added += linkCode.immediate(codeId);
+        linkedCodes++;
+      } catch (err) {
+        failed.push({ codeId, error: (err as Error).message });
+      }
+    }
+    return { added, codes: linkedCodes, failed };
   }
 
   entriesOf(codeId: string, afterCursor = 0): StoredEntry[] {

@@ -1,20 +1,9 @@
-import { createHash } from 'node:crypto';
-import canonicalize from 'canonicalize';
 import type { CanonicalRecord, SignatureMeaning } from '@steadyhand/shared';
+import { canonicalText, sha256Hex } from '../common/canonical-json.js';
 
 // The record's shape is shared with the screens; the server adds how it is hashed and signed.
 export { RECORD_FORMAT, type CanonicalRecord, type RecordAttachment, type RecordCode } from '@steadyhand/shared';
-
-/** RFC 8785 (JSON Canonicalization Scheme): the same record always gives the same bytes. */
-export function canonicalText(value: unknown): string {
-  const text = canonicalize(value);
-  if (text === undefined) throw new Error('The record cannot be canonicalised');
-  return text;
-}
-
-export function sha256Hex(text: string | Buffer): string {
-  return createHash('sha256').update(text).digest('hex');
-}
+export { canonicalText, sha256Hex };
 
 export function recordDigest(record: CanonicalRecord): string {
   return sha256Hex(canonicalText(record));

@@ -9,6 +9,7 @@ import {
   type ClinicalEntry,
   type CodeSummary,
   type EffectiveEntry,
+  type EntryChainStatus,
   type LogEntry,
   type ProtocolSettings,
   type RecordSignature,
@@ -44,6 +45,8 @@ export async function renderPdf(definition: TDocumentDefinitions): Promise<Buffe
 export interface RecordPdfInput {
   record: CanonicalRecord;
   digest: string;
+  /** The entry chain as checked when printing; one line beside the digest. */
+  chain: EntryChainStatus;
   status: RecordStatus;
   summary: CodeSummary;
   settings: ProtocolSettings;
@@ -74,6 +77,13 @@ const STATUS_TEXT: Record<RecordStatus, string> = {
 
 // Text in the page header too: the diagonal mark is drawn rotated, which text extraction skips.
 const HEADER_STATUS: Record<RecordStatus, string> = { draft: 'DRAFT — not signed', 'partly-signed': 'Partly signed', signed: 'Signed' };
+
+/** "Entry chain: 32 entries, head 3f2a…, intact", or where it breaks. */
+export function chainLine(chain: EntryChainStatus): string {
+  if (!chain.valid) return `Entry chain: BROKEN at position ${chain.brokenAt.position}: ${chain.brokenAt.reason}`;
+  if (!chain.head) return 'Entry chain: no entries';
+  return `Entry chain: ${chain.length} ${chain.length === 1 ? 'entry' : 'entries'}, head ${chain.head.slice(0, 16)}…, intact`;
+}
 
 function num(n: number): string {
   return Number.isInteger(n) ? String(n) : String(Math.round(n * 1000) / 1000);
@@ -498,7 +508,13 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
     footer: (page: number, pages: number) => ({
       margin: [36, 12, 36, 0],
       columns: [
-        { text: `Record SHA-256: ${digest}`, fontSize: 7, color: GREY, width: '*' },
+        {
+          stack: [
+            { text: `Record SHA-256: ${digest}`, fontSize: 7, color: GREY },
+            { text: chainLine(input.chain), fontSize: 7, color: input.chain.valid ? GREY : '#000000', bold: !input.chain.valid },
+          ],
+          width: '*',
+        },
         { text: `Page ${page} of ${pages}`, fontSize: 8, alignment: 'right', width: 70 },
       ],
     }),

@@ -27,6 +27,7 @@ import {
 import { AuditService } from '../audit/audit.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { CodesRepository } from '../codes/codes.repository.js';
+import { verifyEntryChain } from '../codes/entry-chain.js';
 import { EntriesService } from '../codes/entries.service.js';
 import { APP_CONFIG } from '../config/config.module.js';
 import type { AppConfig } from '../config/config.js';
@@ -129,6 +130,7 @@ export class RecordsService {
     return {
       record,
       digest: recordDigest(record),
+      chain: verifyEntryChain(record.entries, this.codes.linksOf(id)),
       signatures: rows.map((r) => ({
         printedName: r.printedName,
         meaning: r.meaning,
@@ -280,6 +282,7 @@ export class RecordsService {
     const definition = buildRecordPdf({
       record,
       digest,
+      chain: view.chain,
       status: view.status,
       summary,
       settings,
@@ -362,6 +365,16 @@ export class RecordsService {
       status: view.status,
       signatures: view.signatures,
     };
+    // First: an entry changed in place also changes the digest, and the chain says which one.
+    const { chain } = view;
+    if (!chain.valid) {
+      const { position, entryId, reason } = chain.brokenAt;
+      return {
+        valid: false,
+        reason: `The record's entry chain is broken at position ${position} (entry ${entryId}): ${reason}. The stored log is no longer the log as it was written.`,
+        record: summary,
+      };
+    }
     if (view.digest !== digest) {
       return { valid: false, reason: 'The record has changed since this copy was made: its digest is no longer the record’s.', record: summary };
     }

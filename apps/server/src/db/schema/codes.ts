@@ -1,4 +1,4 @@
-import { index, integer, real, sqliteTable, text } from 'drizzle-orm/sqlite-core';
+import { index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
 import { users } from './users.js';
 
 export const codes = sqliteTable(
@@ -55,4 +55,27 @@ export const entries = sqliteTable(
     body: text('body', { mode: 'json' }).notNull().$type<Record<string, unknown>>(),
   },
   (t) => [index('entries_code_cursor_idx').on(t.codeId, t.cursor)],
+);
+
+/**
+ * The entry log chained by hash, one link per entry. Append-only (triggers). A link's hash is
+ * SHA-256 of `prev_hash + "\n" + ` the RFC 8785 text of the stored entry as the canonical record
+ * holds it; the first link of a code has 64 zeros as `prev_hash`. One position per code, so the
+ * chain cannot fork.
+ */
+export const entryLinks = sqliteTable(
+  'entry_links',
+  {
+    entryId: text('entry_id')
+      .primaryKey()
+      .references(() => entries.id),
+    codeId: text('code_id')
+      .notNull()
+      .references(() => codes.id),
+    /** 1..n per code, in cursor order. */
+    position: integer('position').notNull(),
+    prevHash: text('prev_hash').notNull(),
+    hash: text('hash').notNull(),
+  },
+  (t) => [uniqueIndex('entry_links_code_position_idx').on(t.codeId, t.position)],
 );

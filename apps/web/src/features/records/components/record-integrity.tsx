@@ -23,6 +23,17 @@ export function RecordIntegrity({ view }: { view: RecordView }) {
           {view.digest}
         </Code>
       </Text>
+      <Text
+        textStyle="sm"
+        fontWeight="bold"
+        color={view.chain.valid ? 'seaglass.700' : 'alarm.700'}
+        data-testid="record-chain"
+        data-valid={view.chain.valid ? 'true' : 'false'}
+      >
+        {view.chain.valid
+          ? `✓ Entry chain intact: ${view.chain.length} entries, each hash covering the one before.`
+          : `✕ Entry chain broken${view.chain.brokenAt ? ` at entry ${view.chain.brokenAt.position}: ${view.chain.brokenAt.reason}` : ''}. Tell the administrator: the log may have been altered outside Steadyhand.`}
+      </Text>
       <HStack gap="3" wrap="wrap">
         <Button asChild colorPalette="brand" size="lg">
           <a href={recordPdfHref(view.record.code.id)} download data-testid="record-pdf">
