@@ -363,7 +363,7 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
       { text: clock.time(e.at), ...strike },
       { text: sinceArrest((Date.parse(e.at) - arrestMs) / 1000), ...strike },
       { text: d.what, bold: true, ...strike },
-      { stack: [{ text: d.details, ...strike }, ...markers] },
+      markers.length > 0 ? { stack: [{ text: d.details, ...strike }, ...markers] } : { text: d.details, ...strike },
       { text: who(e.userId) },
       { text: e.deviceId ?? '' },
     ];
@@ -380,6 +380,8 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
     },
     layout: thinLines,
     fontSize: 8,
+    // Denser than body text: six hundred rows must stay readable without running to extra pages.
+    lineHeight: 1.05,
   };
   const counts = s.entryCounts;
   const addenda = record.entries.filter((e) => e.addendum).length;
