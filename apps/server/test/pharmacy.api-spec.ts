@@ -210,6 +210,9 @@ describe('pharmacy: trays, worklist, reconciliation, sign-off, restock list', ()
     expect(csv.headers['content-disposition']).toMatch(/attachment; filename="restock-4-west-medical-.*\.csv"/);
     const lines = (csv.text).trim().split('\r\n');
     expect(lines[0]).toBe(RESTOCK_CSV_COLUMNS.join(','));
+    // The export is in the audit trail, like every other export.
+    const exported = app.database.sqlite.prepare("SELECT detail FROM audit_events WHERE code_id = ? AND action = 'pharmacy.export-restock'").all(older) as { detail: string }[];
+    expect(exported.map((r) => JSON.parse(r.detail) as { format: string })).toContainEqual(expect.objectContaining({ format: 'csv' }));
     // The lot and expiry on the tray now, a flag when it has expired or expires within 30 days;
     // new_lot and new_expiry blank for the person restocking.
     expect(lines).toContain(`4 West Medical,Adult tray,Epinephrine,1 mg in 10 mL,no,10,2,0,2,EP2291,EPI-T-0411,${farExpiry},,,`);

@@ -160,6 +160,22 @@ describe('pharmacy reconciliation, in Chromium', () => {
     await page.goto('/pharmacy');
     await page.getByTestId('worklist').waitFor();
     expect(await page.getByTestId(`worklist-row-${codeId}`).count()).toBe(0);
+
+    // Restock by cart: the 4 West cart's list counts the code just signed off.
+    const unitSelect = page.getByTestId('cart-restock-unit');
+    const westUnit = await unitSelect
+      .locator('option', { hasText: '4 West Medical' })
+      .first()
+      .getAttribute('value');
+    await unitSelect.selectOption(westUnit ?? '');
+    await page.getByTestId('cart-restock-line-epinephrine').waitFor();
+    expect(await page.getByTestId('cart-restock-included').innerText()).toMatch(
+      /Codes included: [1-9]/,
+    );
+    expect(await page.getByTestId('cart-restock-pdf').getAttribute('href')).toMatch(
+      /\/api\/pharmacy\/carts\/.+\/restock\.pdf\?since=\d{4}-\d\d-\d\d$/,
+    );
+    await screenshot(page, 'pharmacy-cart-restock');
     await context.close();
     // Three password checks (sign-in, a wrong one, the right one) on a busy two-core machine.
   }, 150_000);

@@ -2,13 +2,16 @@ import { describe, expect, it } from 'vitest';
 import type { LogEntry } from './effective-log.js';
 import { DEFAULT_PROTOCOL } from './protocol.js';
 import {
+  cartRestockQuerySchema,
   convertToItemUnit,
   expiryNote,
   reconcileDrugs,
   reconciliationCounts,
   restockRows,
   saveReconciliationSchema,
+  sumCartRestock,
   trayTemplateInputSchema,
+  type CartRestockCodeInput,
   type ReconciledDrug,
   type ReconciliationLineInput,
   type TrayItem,
@@ -220,5 +223,88 @@ describe('tray item lot and expiry', () => {
     // A tray item frozen by a sign-off before lots existed has neither field.
     const { lot: _lot, expiry: _expiry, ...old } = EPI;
     expect(one(reconcileDrugs({ drugTotals: [], items: [old as TrayItem], lines: [] }), 'epinephrine')).toMatchObject({ trayLot: null, trayExpiry: null });
+  });
+});
+
+describe('sumCartRestock: one restock list for a cart over several codes', () => {
+  const TODAY = '2026-12-02';
+  const tray = { id: 'tray-adult', name: 'Adult tray', items: [EPI, AMIO, { ...ATROPINE, lot: 'AT0415', expiry: '2026-12-20' }, MIDAZOLAM] };
+  const withLot = (l: ReconciliationLineInput, lotNumbers: string | null): ReconciliationLineInput => ({ ...l, lotNumbers });
+  let k = 0;
+  const code = (fields: Partial<CartRestockCodeInput> & { totals?: ReturnType<typeof total>[]; lines?: ReconciliationLineInput[] }): CartRestockCodeInput => {
+    const { totals = [], lines = [], ...rest } = fields;
+    k += 1;
+    return {
+      codeId: `code-${k}`,
+      arrestAt: new Date(Date.UTC(2026, 10, 20, k)).toISOString(),
+      location: '4 West Medical',
+      codeStatus: 'ended',
+      status: 'signed',
+      tray: { id: tray.id, name: tray.name },
+      // The per-code rules, as the reconciliation page computes them.
+      rows: reconcileDrugs({ drugTotals: totals, items: tray.items, lines }),
+      ...rest,
+    };
+  };
+
+  it('sums two codes that each opened one epinephrine 1 mg/10 mL: restock 2, both codes named, both lots once each', () => {
+    const a = code({ totals: [total('epinephrine', 1, 'mg')], lines: [withLot(line('epinephrine', 1), 'EP2291')] });
+    const b = code({ totals: [total('epinephrine', 1, 'mg')], lines: [withLot(line('epinephrine', 1), 'EP2291, EP2300')] });
+    const sum = sumCartRestock({ tray, codes: [b, a], today: TODAY });
+    const epi = sum.lines.find((l) => l.drugKey === 'epinephrine');
+    expect(epi).toMatchObject({ strength: '1 mg in 10 mL', par: 10, unitsOpened: 2, unitsWasted: 0, restock: 2, lotsUsed: ['EP2291', 'EP2300'], codeIds: [a.codeId, b.codeId] });
+    expect(sum.included.map((c) => c.codeId)).toEqual([a.codeId, b.codeId]);
+    expect(sum.leftOut).toEqual([]);
+  });
+
+  it('keeps an item only one code opened with that code alone, and counts waste into the restock', () => {
+    const a = code({ totals: [total('epinephrine', 1, 'mg')], lines: [line('epinephrine', 1)] });
+    // 300 mg amiodarone from three 150 mg vials, one dropped: 3 to put back, 1 of them wasted.
+    const b = code({ totals: [total('epinephrine', 1, 'mg'), total('amiodarone', 300, 'mg')], lines: [line('epinephrine', 1), line('amiodarone', 3, 1)] });
+    const sum = sumCartRestock({ tray, codes: [a, b], today: TODAY });
+    expect(sum.lines.find((l) => l.drugKey === 'amiodarone')).toMatchObject({ unitsOpened: 3, unitsWasted: 1, restock: 3, codeIds: [b.codeId] });
+    expect(sum.lines.find((l) => l.drugKey === 'epinephrine')).toMatchObject({ restock: 2, codeIds: [a.codeId, b.codeId] });
+    // Atropine: nobody opened it, but its lot on the tray expires within 30 days. Midazolam: untouched, not listed.
+    expect(sum.lines.map((l) => [l.drugKey, l.restock, l.expiryNote])).toEqual([
+      ['epinephrine', 2, null],
+      ['amiodarone', 3, null],
+      ['atropine', 0, 'expires within 30 days'],
+    ]);
+  });
+
+  it('leaves out a code whose reconciliation is not signed off, one still running and one counted against another tray, saying why', () => {
+    const signed = code({ totals: [total('epinephrine', 1, 'mg')], lines: [line('epinephrine', 1)] });
+    const draft = code({ status: 'draft', totals: [total('epinephrine', 1, 'mg')], lines: [line('epinephrine', 1)] });
+    const notStarted = code({ status: 'not-started' });
+    const running = code({ codeStatus: 'active', status: 'not-started' });
+    const other = code({ tray: { id: 'tray-peds', name: 'Pediatric tray' }, totals: [total('epinephrine', 1, 'mg')], lines: [line('epinephrine', 1)] });
+    const sum = sumCartRestock({ tray, codes: [signed, draft, notStarted, running, other], today: TODAY });
+    expect(sum.lines.find((l) => l.drugKey === 'epinephrine')).toMatchObject({ restock: 1, codeIds: [signed.codeId] });
+    expect(sum.included.map((c) => c.codeId)).toEqual([signed.codeId]);
+    expect(sum.leftOut.map((c) => [c.codeId, c.reason, c.message])).toEqual([
+      [draft.codeId, 'not-signed-off', 'The reconciliation is a draft, not signed off: sign it off to count it here.'],
+      [notStarted.codeId, 'not-signed-off', 'The reconciliation is not started, not signed off: sign it off to count it here.'],
+      [running.codeId, 'running', 'The code is still running: reconcile it after it ends.'],
+      [other.codeId, 'other-tray', 'Reconciled against the tray "Pediatric tray", not "Adult tray".'],
+    ]);
+  });
+
+  it('lists a drug opened that is not on the cart\'s tray, and puts controlled drugs first', () => {
+    const a = code({
+      totals: [total('midazolam', 2, 'mg'), total('naloxone', 0.4, 'mg')],
+      lines: [{ ...line('midazolam', 1), wasteWitness: 'R. Okafor' }, line('naloxone', 1), line('epinephrine', 1)],
+    });
+    const sum = sumCartRestock({ tray: { ...tray, items: [EPI, MIDAZOLAM] }, codes: [a], today: TODAY });
+    expect(sum.lines.map((l) => [l.drugKey, l.onTray, l.strength, l.restock])).toEqual([
+      ['midazolam', true, '5 mg in 5 mL', 1],
+      ['epinephrine', true, '1 mg in 10 mL', 1],
+      ['naloxone', false, null, 1],
+    ]);
+  });
+
+  it('takes `since` as a YYYY-MM-DD date or nothing', () => {
+    expect(cartRestockQuerySchema.parse({})).toEqual({});
+    expect(cartRestockQuerySchema.parse({ since: '2026-11-25' })).toEqual({ since: '2026-11-25' });
+    expect(cartRestockQuerySchema.safeParse({ since: '25/11/2026' }).error?.issues[0]).toMatchObject({ path: ['since'] });
   });
 });

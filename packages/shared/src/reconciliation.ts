@@ -545,3 +545,178 @@ export const RESTOCK_CSV_COLUMNS = [
   'new_lot',
   'new_expiry',
 ] as const;
+
+// ---------------------------------------------------------------- restock by cart
+
+/** Columns of the cart's restock list: the per-code columns and the codes each line comes from. */
+export const CART_RESTOCK_CSV_COLUMNS = [...RESTOCK_CSV_COLUMNS, 'codes'] as const;
+
+/** Days back the cart's restock list reaches when no `since` is given. */
+export const CART_RESTOCK_DEFAULT_DAYS = 7;
+
+export const cartRestockQuerySchema = z.object({
+  /** Codes whose arrest was on or after this UTC date. */
+  since: z.iso.date({ message: 'must be a date, YYYY-MM-DD, e.g. 2026-03-01' }).optional(),
+});
+export type CartRestockQuery = z.infer<typeof cartRestockQuerySchema>;
+
+/** One code on the cart's unit in the period, with its reconciliation as the per-code page shows it. */
+export interface CartRestockCodeInput {
+  codeId: string;
+  arrestAt: string;
+  location: string | null;
+  codeStatus: 'active' | 'ended';
+  status: ReconciliationStatus;
+  /** The tray the reconciliation counted against (as signed). */
+  tray: { id: string; name: string } | null;
+  rows: readonly ReconciledDrug[];
+}
+
+export const CART_LEFT_OUT_REASONS = ['running', 'not-signed-off', 'other-tray'] as const;
+export type CartLeftOutReason = (typeof CART_LEFT_OUT_REASONS)[number];
+
+export interface CartRestockCode {
+  codeId: string;
+  arrestAt: string;
+  location: string | null;
+}
+
+export interface CartLeftOutCode extends CartRestockCode {
+  reason: CartLeftOutReason;
+  message: string;
+}
+
+export interface CartRestockLine {
+  drugKey: string;
+  label: string;
+  /** "1 mg in 10 mL"; null for a drug that is not on the cart's tray. */
+  strength: string | null;
+  controlled: boolean;
+  onTray: boolean;
+  par: number | null;
+  unitsOpened: number;
+  unitsWasted: number;
+  restock: number;
+  /** Lot numbers written on the codes' lines, each once, in the order the codes happened. */
+  lotsUsed: string[];
+  /** Codes that opened this item, oldest arrest first. */
+  codeIds: string[];
+  /** The lot and expiry on the cart's tray now. */
+  trayLot: string | null;
+  trayExpiry: string | null;
+  expiryNote: ExpiryNote | null;
+}
+
+export interface CartRestockSum {
+  lines: CartRestockLine[];
+  included: CartRestockCode[];
+  leftOut: CartLeftOutCode[];
+}
+
+export interface CartRestockInput {
+  /** The tray the cart carries now: its items give par, strength and the lot on the cart. */
+  tray: { id: string; name: string; items: readonly TrayItem[] };
+  codes: readonly CartRestockCodeInput[];
+  /** YYYY-MM-DD (UTC): for the expiry notes. */
+  today: string;
+}
+
+/** Why a code's counts are not in the cart's list, or null when they are. */
+function leftOutReason(code: CartRestockCodeInput, trayId: string, trayName: string): Omit<CartLeftOutCode, keyof CartRestockCode> | null {
+  if (code.codeStatus !== 'ended') return { reason: 'running', message: 'The code is still running: reconcile it after it ends.' };
+  if (code.status !== 'signed') {
+    const state = code.status === 'draft' ? 'a draft' : 'not started';
+    return { reason: 'not-signed-off', message: `The reconciliation is ${state}, not signed off: sign it off to count it here.` };
+  }
+  if (code.tray?.id !== trayId) {
+    return { reason: 'other-tray', message: `Reconciled against ${code.tray ? `the tray "${code.tray.name}"` : 'no tray'}, not "${trayName}".` };
+  }
+  return null;
+}
+
+/**
+ * The restock list for a cart over several codes: each signed-off code's restock rows
+ * (restockRows, as on the per-code list) summed per drug, one line per item of the tray. Codes
+ * still running, not signed off, or counted against another tray are left out, each with why.
+ * Items nobody opened are listed when their lot on the tray has expired or expires soon.
+ */
+export function sumCartRestock(input: CartRestockInput): CartRestockSum {
+  const codes = [...input.codes].sort((a, b) => a.arrestAt.localeCompare(b.arrestAt) || a.codeId.localeCompare(b.codeId));
+  const included: CartRestockCode[] = [];
+  const leftOut: CartLeftOutCode[] = [];
+  const sums = new Map<string, { first: ReconciledDrug; opened: number; wasted: number; restock: number; lots: string[]; codeIds: string[] }>();
+
+  for (const code of codes) {
+    const ref = { codeId: code.codeId, arrestAt: code.arrestAt, location: code.location };
+    const why = leftOutReason(code, input.tray.id, input.tray.name);
+    if (why) {
+      leftOut.push({ ...ref, ...why });
+      continue;
+    }
+    included.push(ref);
+    // Only what the code opened: the expiry flags come from the cart's tray now, below.
+    for (const row of restockRows(code.rows, input.today).filter((r) => r.restock > 0)) {
+      const sum = sums.get(row.drugKey) ?? { first: row, opened: 0, wasted: 0, restock: 0, lots: [], codeIds: [] };
+      sum.opened += row.unitsOpened;
+      sum.wasted += row.unitsWasted;
+      sum.restock += row.restock;
+      for (const lot of (row.lotNumbers ?? '').split(/[,;]/).map((l) => l.trim())) if (lot && !sum.lots.includes(lot)) sum.lots.push(lot);
+      sum.codeIds.push(code.codeId);
+      sums.set(row.drugKey, sum);
+    }
+  }
+
+  const items = [...input.tray.items].sort((a, b) => a.sortOrder - b.sortOrder);
+  const onTray = items.map((item): CartRestockLine => {
+    const sum = sums.get(item.drugKey);
+    return {
+      drugKey: item.drugKey,
+      label: item.label,
+      strength: formatStrength(item),
+      controlled: item.controlled,
+      onTray: true,
+      par: item.quantity,
+      unitsOpened: sum?.opened ?? 0,
+      unitsWasted: sum?.wasted ?? 0,
+      restock: sum?.restock ?? 0,
+      lotsUsed: sum?.lots ?? [],
+      codeIds: sum?.codeIds ?? [],
+      trayLot: item.lot ?? null,
+      trayExpiry: item.expiry ?? null,
+      expiryNote: expiryNote(item.expiry, input.today),
+    };
+  });
+  const tray = new Set(items.map((i) => i.drugKey));
+  // Opened from the cart, but not (or no longer) an item of its tray: listed to say so.
+  const offTray = [...sums.entries()]
+    .filter(([key]) => !tray.has(key))
+    .map(([drugKey, sum]): CartRestockLine => ({
+      drugKey,
+      label: sum.first.label,
+      strength: null,
+      controlled: sum.first.controlled,
+      onTray: false,
+      par: null,
+      unitsOpened: sum.opened,
+      unitsWasted: sum.wasted,
+      restock: sum.restock,
+      lotsUsed: sum.lots,
+      codeIds: sum.codeIds,
+      trayLot: null,
+      trayExpiry: null,
+      expiryNote: null,
+    }));
+  const lines = [...onTray, ...offTray]
+    .filter((l) => l.restock > 0 || l.expiryNote !== null)
+    .sort((a, b) => Number(b.controlled) - Number(a.controlled));
+  return { lines, included, leftOut };
+}
+
+/** The answer of GET /api/pharmacy/carts/:unitId/restock. */
+export interface CartRestock extends CartRestockSum {
+  unit: { id: string; name: string };
+  tray: { id: string; name: string };
+  /** The period, by the codes' arrest time: from `since` (00:00 UTC) to `until`. */
+  since: string;
+  until: string;
+}

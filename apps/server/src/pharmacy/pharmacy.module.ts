@@ -2,6 +2,7 @@ import { Module } from '@nestjs/common';
 import { CodesModule } from '../codes/codes.module.js';
 import { ProtocolModule } from '../protocol/protocol.module.js';
 import { UsersModule } from '../users/users.module.js';
+import { CartRestockService } from './cart-restock.service.js';
 import { PharmacyRepository } from './pharmacy.repository.js';
 import { ReconciliationController } from './reconciliation.controller.js';
 import { ReconciliationService } from './reconciliation.service.js';
@@ -12,6 +13,6 @@ import { TraysService } from './trays.service.js';
 @Module({
   imports: [CodesModule, ProtocolModule, UsersModule],
   controllers: [TraysController, ReconciliationController],
-  providers: [PharmacyRepository, TraysService, ReconciliationService],
+  providers: [PharmacyRepository, TraysService, ReconciliationService, CartRestockService],
 })
 export class PharmacyModule {}

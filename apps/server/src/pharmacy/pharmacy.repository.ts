@@ -1,6 +1,6 @@
 import { Inject, Injectable } from '@nestjs/common';
 import type { DoseUnit, PharmacyUnit, ReconciliationLineInput, TrayItem, TrayTemplate } from '@steadyhand/shared';
-import { and, asc, desc, eq, inArray, isNotNull } from 'drizzle-orm';
+import { and, asc, desc, eq, gte, inArray, isNotNull } from 'drizzle-orm';
 import { DB } from '../db/database.module.js';
 import type { Db } from '../db/database.js';
 import {
@@ -50,6 +50,13 @@ export function toLine(row: LineRow): ReconciliationLineInput {
     lotNumbers: row.lotNumbers,
     note: row.note,
   };
+}
+
+function matchUnit<U extends { id: string; name: string }>(all: U[], code: { unitId: string | null; location: string | null }): U | undefined {
+  if (code.unitId) return all.find((u) => u.id === code.unitId);
+  const location = code.location?.trim().toLowerCase();
+  if (!location) return undefined;
+  return all.find((u) => location.startsWith(u.name.toLowerCase()));
 }
 
 /** Tray templates, unit assignments, reconciliations, their lines and addenda. */
@@ -117,11 +124,23 @@ export class PharmacyRepository {
 
   /** The unit a code happened in: its unit id, else a unit whose name starts its location text. */
   unitOf(code: { unitId: string | null; location: string | null }): { id: string; name: string } | undefined {
+    return matchUnit(this.db.select({ id: units.id, name: units.name }).from(units).all(), code);
+  }
+
+  findUnit(id: string): { id: string; name: string } | undefined {
+    return this.db.select({ id: units.id, name: units.name }).from(units).where(eq(units.id, id)).get();
+  }
+
+  /** Codes of a unit (as unitOf reads them) whose arrest was at or after `since`, oldest first. */
+  codesOfUnitSince(unitId: string, since: string): (typeof codes.$inferSelect)[] {
     const all = this.db.select({ id: units.id, name: units.name }).from(units).all();
-    if (code.unitId) return all.find((u) => u.id === code.unitId);
-    const location = code.location?.trim().toLowerCase();
-    if (!location) return undefined;
-    return all.find((u) => location.startsWith(u.name.toLowerCase()));
+    return this.db
+      .select()
+      .from(codes)
+      .where(gte(codes.arrestAt, since))
+      .orderBy(asc(codes.arrestAt))
+      .all()
+      .filter((c) => matchUnit(all, c)?.id === unitId);
   }
 
   trayOfUnit(unitId: string): string | undefined {

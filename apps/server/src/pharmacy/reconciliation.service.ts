@@ -141,8 +141,19 @@ export class ReconciliationService {
     return this.compute(codeId).view;
   }
 
-  restockCsv(codeId: string): { filename: string; body: string } {
+  /** The reconciliation as the pharmacist reads it (the cart's restock list sums these). */
+  viewOf(codeId: string): ReconciliationView {
+    return this.compute(codeId).view;
+  }
+
+  /** Who exported which restock list, as every other export is in the audit trail. */
+  private auditRestockExport(user: SessionUser, codeId: string, format: 'csv' | 'pdf', view: ReconciliationView): void {
+    this.audit.record({ action: 'pharmacy.export-restock', userId: user.id, username: user.username, codeId, detail: { format, status: view.status, trayId: view.tray?.id ?? null } });
+  }
+
+  restockCsv(user: SessionUser, codeId: string): { filename: string; body: string } {
     const { view, unitName } = this.compute(codeId);
+    this.auditRestockExport(user, codeId, 'csv', view);
     const unit = unitName ?? view.code.location ?? 'unknown unit';
     const tray = view.tray?.name ?? 'no tray';
     const today = new Date().toISOString().slice(0, 10);
@@ -156,8 +167,9 @@ export class ReconciliationService {
     return { filename: `restock-${slug(unit)}-${view.code.arrestAt.slice(0, 10)}.csv`, body };
   }
 
-  async restockPdf(codeId: string): Promise<{ filename: string; body: Buffer }> {
+  async restockPdf(user: SessionUser, codeId: string): Promise<{ filename: string; body: Buffer }> {
     const { view, unitName } = this.compute(codeId);
+    this.auditRestockExport(user, codeId, 'pdf', view);
     const unit = unitName ?? view.code.location ?? 'unknown unit';
     const status =
       view.status === 'signed' && view.signedAt
@@ -309,10 +321,10 @@ function withCurrentLots(items: TrayItem[], trayNow: TrayItem[]): TrayItem[] {
 // eslint-disable-next-line no-control-regex
 const oneLine = (value: string) => value.replace(/[\u0000-\u001f\u007f]+/g, ' ').trim();
 
-const slug = (s: string) => s.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'unit';
+export const slug = (s: string) => s.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'unit';
 
 /** RFC 4180 quoting, and a leading ' on text a spreadsheet would run as a formula. */
-function csvCell(value: string | number): string {
+export function csvCell(value: string | number): string {
   let text = String(value);
   if (typeof value === 'string' && /^[=+\-@\t\r]/.test(text)) text = `'${text}`;
   return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;

@@ -80,6 +80,10 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
   'PUT /api/pharmacy/trays/:trayId': { allowed: ['admin'], body: { name: 'Fixture tray', items: [{ drugKey: 'epinephrine', label: 'Epinephrine', strengthAmount: 1, strengthUnit: 'mg', volumeMl: 10, quantity: 10 }] } },
   'PUT /api/pharmacy/units/:unitId/tray': { allowed: ['admin'], body: { trayId: null } },
   'GET /api/pharmacy/worklist': { allowed: ['pharmacist'] },
+  // The fixture unit's cart carries no tray: a pharmacist gets 409.
+  'GET /api/pharmacy/carts/:unitId/restock': { allowed: ['pharmacist'] },
+  'GET /api/pharmacy/carts/:unitId/restock.csv': { allowed: ['pharmacist'] },
+  'GET /api/pharmacy/carts/:unitId/restock.pdf': { allowed: ['pharmacist'] },
   'GET /api/codes/:id/reconciliation': { allowed: ['pharmacist', 'recorder', 'leader'] },
   'PUT /api/codes/:id/reconciliation': { allowed: ['pharmacist'], body: { lines: [] } },
   'POST /api/codes/:id/reconciliation/sign': { allowed: ['pharmacist'], body: { password: TEST_PASSWORD } },

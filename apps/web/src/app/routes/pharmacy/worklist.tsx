@@ -5,12 +5,16 @@ import { PageSpinner } from '../../../components/ui/page-status';
 import { PageTitle } from '../../../components/ui/page-title';
 import { paths } from '../../../config/paths';
 import { useCurrentUser } from '../../../features/auth/hooks/use-current-user';
-import { useWorklist } from '../../../features/pharmacy/api/pharmacy-api';
+import { useTrays, useWorklist } from '../../../features/pharmacy/api/pharmacy-api';
+import { CartRestockSection } from '../../../features/pharmacy/components/cart-restock';
 import { Worklist } from '../../../features/pharmacy/components/worklist';
 
 export function Component() {
   const user = useCurrentUser();
+  const pharmacist = user.roles.includes('pharmacist');
   const worklist = useWorklist();
+  // The units and the tray each cart carries, as on the tray templates page.
+  const trays = useTrays();
   return (
     <Stack gap="6">
       <PageTitle title="Drug reconciliation" />
@@ -25,7 +29,7 @@ export function Component() {
           </Button>
         </HStack>
       </Stack>
-      {!user.roles.includes('pharmacist') ? (
+      {!pharmacist ? (
         <ErrorMessage title="This page needs the pharmacist role." message="Only a pharmacist reconciles drugs." />
       ) : worklist.isPending ? (
         <PageSpinner label="Loading the worklist…" />
@@ -34,6 +38,11 @@ export function Component() {
       ) : (
         <Worklist codes={worklist.data} hrefOf={(id) => paths.pharmacy.code.getHref(id)} />
       )}
+      {!pharmacist ? null : trays.isError ? (
+        <ErrorMessage title="The units did not load" message={trays.error.message} />
+      ) : trays.data ? (
+        <CartRestockSection units={trays.data.units} hrefOf={(id) => paths.pharmacy.code.getHref(id)} />
+      ) : null}
     </Stack>
   );
 }

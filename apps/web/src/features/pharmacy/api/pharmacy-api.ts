@@ -1,4 +1,5 @@
 import type {
+  CartRestock,
   PharmacyUnit,
   ReconciliationAddendumRequest,
   ReconciliationView,
@@ -15,10 +16,26 @@ export const pharmacyKeys = {
   worklist: ['pharmacy', 'worklist'] as const,
   trays: ['pharmacy', 'trays'] as const,
   reconciliation: (codeId: string) => ['pharmacy', 'reconciliation', codeId] as const,
+  cartRestock: (unitId: string, since: string) => ['pharmacy', 'cart-restock', unitId, since] as const,
 };
 
 export const restockHref = (codeId: string, format: 'csv' | 'pdf') =>
   `/api/codes/${encodeURIComponent(codeId)}/reconciliation/restock.${format}`;
+
+/** The cart's restock list; `since` blank leaves the server's default (7 days back). */
+export function cartRestockHref(unitId: string, since: string, format?: 'csv' | 'pdf') {
+  const query = since ? `?since=${encodeURIComponent(since)}` : '';
+  return `/api/pharmacy/carts/${encodeURIComponent(unitId)}/restock${format ? `.${format}` : ''}${query}`;
+}
+
+export function useCartRestock(unitId: string, since: string) {
+  return useQuery({
+    queryKey: pharmacyKeys.cartRestock(unitId, since),
+    queryFn: async () => (await api.get(cartRestockHref(unitId, since))) as CartRestock,
+    enabled: unitId !== '',
+    retry: false,
+  });
+}
 
 export const worklistQueryOptions = () =>
   queryOptions({
