@@ -43,33 +43,62 @@ export interface RestockPdfInput {
 
 const when = (iso: string) => `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC`;
 
+/** The columns both lists share, in print order; the cart list adds `Codes` after `Expiry`. */
+const headerCells = (names: string[]): TableCell[] => names.map((text) => ({ text, bold: true }));
+
+/** The tray's expiry, with its warning in capitals when the lot has expired or expires soon. */
+const expiryCell = (expiry: string | null, note: string | null): TableCell =>
+  note ? { text: [expiry ?? '', '\n', { text: note.toUpperCase(), bold: true, fontSize: 9 }] } : (expiry ?? '');
+
+/** Drug (controlled in bold) to lot on tray: the same cells on both lists. */
+function countCells(l: {
+  label: string;
+  controlled: boolean;
+  strength: string | null;
+  par: number | null;
+  unitsOpened: number;
+  unitsWasted: number;
+  restock: number;
+  lots: string;
+  trayLot: string | null;
+}): TableCell[] {
+  return [
+    { text: `${l.label}${l.controlled ? ' (controlled)' : ''}`, bold: l.controlled },
+    l.strength ?? 'not on tray',
+    l.par === null ? '' : String(l.par),
+    String(l.unitsOpened),
+    String(l.unitsWasted),
+    { text: String(l.restock), bold: true },
+    l.lots,
+    l.trayLot ?? '',
+  ];
+}
+
+/** Blank columns for the person restocking: new lot, new expiry, a box to tick. */
+const FILL_IN: TableCell[] = ['', '', '____'];
+const SIGN_LINE: Content = { text: '\nRestocked by: ______________________   Checked by: ______________________   Date/time: ______________', margin: [0, 16, 0, 0] };
+
+/** Landscape A4 in Atkinson, a title and section style, the footer line on every page. */
+function listDocument(infoTitle: string, content: Content[], footer: (page: number, pages: number) => string, sectionTop: number): TDocumentDefinitions {
+  return {
+    pageSize: 'A4',
+    pageOrientation: 'landscape',
+    pageMargins: [32, 32, 32, 40],
+    defaultStyle: { font: 'Atkinson', fontSize: 10 },
+    styles: { title: { fontSize: 18, bold: true, margin: [0, 0, 0, 4] }, section: { fontSize: 13, bold: true, margin: [0, sectionTop, 0, 4] } },
+    info: { title: infoTitle, creator: 'Steadyhand' },
+    footer: (page, pages) => ({ text: footer(page, pages), alignment: 'center', fontSize: 8 }),
+    content,
+  };
+}
+
 export async function renderRestockPdf(input: RestockPdfInput): Promise<Buffer> {
   configure();
   const today = input.printedAt.slice(0, 10);
   const restock = restockRows(input.rows, today);
-  const header: TableCell[] = ['Drug', 'Strength', 'Par', 'Opened', 'Wasted', 'Restock', 'Lots used', 'Lot on tray', 'Expiry', 'New lot', 'New expiry', 'Done'].map(
-    (text) => ({ text, bold: true }),
-  );
-  const expiryCell = (r: ReconciledDrug): TableCell => {
-    const note = expiryNote(r.trayExpiry, today);
-    return note ? { text: [r.trayExpiry ?? '', '\n', { text: note.toUpperCase(), bold: true, fontSize: 9 }] } : (r.trayExpiry ?? '');
-  };
   const body: TableCell[][] = [
-    header,
-    ...restock.map((r): TableCell[] => [
-      { text: `${r.label}${r.controlled ? ' (controlled)' : ''}`, bold: r.controlled },
-      r.strength ?? 'not on tray',
-      r.par === null ? '' : String(r.par),
-      String(r.unitsOpened),
-      String(r.unitsWasted),
-      { text: String(r.restock), bold: true },
-      r.lotNumbers ?? '',
-      r.trayLot ?? '',
-      expiryCell(r),
-      '',
-      '',
-      '____',
-    ]),
+    headerCells(['Drug', 'Strength', 'Par', 'Opened', 'Wasted', 'Restock', 'Lots used', 'Lot on tray', 'Expiry', 'New lot', 'New expiry', 'Done']),
+    ...restock.map((r): TableCell[] => [...countCells({ ...r, lots: r.lotNumbers ?? '' }), expiryCell(r.trayExpiry, expiryNote(r.trayExpiry, today)), ...FILL_IN]),
   ];
   const flagged = input.rows.filter((r) => r.flagged);
   const content: Content[] = [
@@ -82,18 +111,9 @@ export async function renderRestockPdf(input: RestockPdfInput): Promise<Buffer> 
       : { text: 'Nothing was opened from this tray and no lot on it expires within 30 days: nothing to restock.' },
     { text: flagged.length ? 'Discrepancies to resolve' : 'No discrepancies', style: 'section' },
     ...flagged.map((r): Content => ({ text: `PROBLEM: ${r.label}: ${r.discrepancies.map((d) => `${DISCREPANCY_WORDS[d.kind]}. ${d.message}`).join(' ')}`, margin: [0, 2, 0, 2] })),
-    { text: '\nRestocked by: ______________________   Checked by: ______________________   Date/time: ______________', margin: [0, 16, 0, 0] },
+    SIGN_LINE,
   ];
-  const definition: TDocumentDefinitions = {
-    pageSize: 'A4',
-    pageOrientation: 'landscape',
-    pageMargins: [32, 32, 32, 40],
-    defaultStyle: { font: 'Atkinson', fontSize: 10 },
-    styles: { title: { fontSize: 18, bold: true, margin: [0, 0, 0, 4] }, section: { fontSize: 13, bold: true, margin: [0, 14, 0, 4] } },
-    info: { title: `Restock list ${input.unitName}`, creator: 'Steadyhand' },
-    footer: (page, pages) => ({ text: `Printed ${when(input.printedAt)} · page ${page} of ${pages}`, alignment: 'center', fontSize: 8 }),
-    content,
-  };
+  const definition = listDocument(`Restock list ${input.unitName}`, content, (page, pages) => `Printed ${when(input.printedAt)} · page ${page} of ${pages}`, 14);
   return pdfmake.createPdf(definition).getBuffer();
 }
 
@@ -106,29 +126,15 @@ export interface CartRestockPdfInput {
 /** The cart's restock list over several codes: the same table, the codes it sums and those left out. */
 export async function renderCartRestockPdf({ facility, restock, printedAt }: CartRestockPdfInput): Promise<Buffer> {
   configure();
-  const header: TableCell[] = ['Drug', 'Strength', 'Par', 'Opened', 'Wasted', 'Restock', 'Lots used', 'Lot on tray', 'Expiry', 'Codes', 'New lot', 'New expiry', 'Done'].map(
-    (text) => ({ text, bold: true }),
-  );
   const codeNumber = new Map(restock.included.map((c, i) => [c.codeId, i + 1]));
-  const expiryCell = (l: CartRestockLine): TableCell =>
-    l.expiryNote ? { text: [l.trayExpiry ?? '', '\n', { text: l.expiryNote.toUpperCase(), bold: true, fontSize: 9 }] } : (l.trayExpiry ?? '');
   const body: TableCell[][] = [
-    header,
-    ...restock.lines.map((l): TableCell[] => [
-      { text: `${l.label}${l.controlled ? ' (controlled)' : ''}`, bold: l.controlled },
-      l.strength ?? 'not on tray',
-      l.par === null ? '' : String(l.par),
-      String(l.unitsOpened),
-      String(l.unitsWasted),
-      { text: String(l.restock), bold: true },
-      l.lotsUsed.join(', '),
-      l.trayLot ?? '',
-      expiryCell(l),
+    headerCells(['Drug', 'Strength', 'Par', 'Opened', 'Wasted', 'Restock', 'Lots used', 'Lot on tray', 'Expiry', 'Codes', 'New lot', 'New expiry', 'Done']),
+    ...restock.lines.map((l: CartRestockLine): TableCell[] => [
+      ...countCells({ ...l, lots: l.lotsUsed.join(', ') }),
+      expiryCell(l.trayExpiry, l.expiryNote),
       // Numbers of the codes listed above the table, to keep the column narrow.
       l.codeIds.map((id) => `#${codeNumber.get(id) ?? '?'}`).join(' '),
-      '',
-      '',
-      '____',
+      ...FILL_IN,
     ]),
   ];
   const codeLine = (c: { codeId: string; arrestAt: string; location: string | null }) => `arrest ${when(c.arrestAt)}${c.location ? `, ${c.location}` : ''} (code ${c.codeId})`;
@@ -148,17 +154,8 @@ export async function renderCartRestockPdf({ facility, restock, printedAt }: Car
     restock.lines.length
       ? { table: { headerRows: 1, widths: ['*', 'auto', 'auto', 'auto', 'auto', 'auto', 'auto', 'auto', 88, 'auto', 50, 50, 'auto'], body }, layout: 'lightHorizontalLines', fontSize: 9 }
       : { text: 'Nothing was opened from this cart in the codes included and no lot on its tray expires within 30 days: nothing to restock.' },
-    { text: '\nRestocked by: ______________________   Checked by: ______________________   Date/time: ______________', margin: [0, 16, 0, 0] },
+    SIGN_LINE,
   ];
-  const definition: TDocumentDefinitions = {
-    pageSize: 'A4',
-    pageOrientation: 'landscape',
-    pageMargins: [32, 32, 32, 40],
-    defaultStyle: { font: 'Atkinson', fontSize: 10 },
-    styles: { title: { fontSize: 18, bold: true, margin: [0, 0, 0, 4] }, section: { fontSize: 13, bold: true, margin: [0, 12, 0, 4] } },
-    info: { title: `Restock list ${restock.unit.name}`, creator: 'Steadyhand' },
-    footer: (page, pages) => ({ text: `${restock.unit.name} · printed ${when(printedAt)} · Page ${page} of ${pages}`, alignment: 'center', fontSize: 8 }),
-    content,
-  };
+  const definition = listDocument(`Restock list ${restock.unit.name}`, content, (page, pages) => `${restock.unit.name} · printed ${when(printedAt)} · Page ${page} of ${pages}`, 12);
   return pdfmake.createPdf(definition).getBuffer();
 }
