@@ -39,18 +39,22 @@ export type Outcome = (typeof OUTCOMES)[number];
 
 const isoTime = z.iso.datetime({ offset: true, message: 'must be an ISO 8601 date-time, e.g. 2026-03-04T07:42:10.000Z' });
 
+/** Text must be well-formed Unicode: a lone surrogate cannot be canonicalised, hashed or printed. */
+const LONE_SURROGATE = /\p{Cs}/u;
+const wellFormed = (s: string) => !LONE_SURROGATE.test(s);
+
 /** Fields every entry carries, as sent by a device. */
 const entryBaseShape = {
   id: z.uuid({ message: 'id must be a UUID made on the device' }),
   at: isoTime,
-  deviceId: z.string().trim().min(1).max(64).optional(),
+  deviceId: z.string().trim().min(1).max(64).refine(wellFormed, 'must be well-formed text').optional(),
   seq: z.number().int().nonnegative().optional(),
   offsetMs: z.number().finite().optional(),
   /** Half the round trip of the clock sample used: how far off `at` may be. */
   offsetUncertaintyMs: z.number().finite().nonnegative().optional(),
 };
 
-const shortText = (max: number) => z.string().trim().min(1).max(max);
+const shortText = (max: number) => z.string().trim().min(1).max(max).refine(wellFormed, 'must be well-formed text (a lone surrogate was found)');
 
 export const cprEntrySchema = z.object({
   ...entryBaseShape,

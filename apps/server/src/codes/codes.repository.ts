@@ -198,8 +198,8 @@ export class CodesRepository {
     try {
       hash = entryLinkHash(prevHash, stored);
     } catch {
-      // RFC 8785 refuses text that is not well-formed Unicode (a lone surrogate). A 400 rolls the
-      // entry back and tells the device it was refused; a 500 would have it resent forever.
+      // The shared schema refuses lone surrogates in entry text; this is the last guard for any
+      // other field. A 400 rolls the entry back; a 500 would have the device resend it forever.
       throw new BadRequestException('The entry holds text that is not well-formed Unicode (a lone surrogate); retype it');
     }
     this.hot.insertLink.run(stored.id, stored.codeId, (last?.position ?? 0) + 1, prevHash, hash);

@@ -36,6 +36,7 @@ import { ProtocolService } from '../protocol/protocol.service.js';
 import { UsersService } from '../users/users.service.js';
 import { DB } from '../db/database.module.js';
 import type { Db } from '../db/database.js';
+import { inArray } from 'drizzle-orm';
 import { users } from '../db/schema/index.js';
 import {
   formatPdfStamp,
@@ -146,8 +147,10 @@ export class RecordsService {
 
   /** Ended codes, newest first, each with how far its record is signed (for "records to sign"). */
   list(limit = 200): RecordListItem[] {
-    return this.codes.listCodes('ended', limit).map((code) => {
-      const rows = this.signatures.ofCode(code.id);
+    const codes = this.codes.listCodes('ended', limit);
+    const signaturesByCode = this.signatures.ofCodes(codes.map((c) => c.id));
+    return codes.map((code) => {
+      const rows = signaturesByCode.get(code.id) ?? [];
       return {
         code,
         status: this.statusOf(rows),
@@ -318,9 +321,10 @@ export class RecordsService {
   }
 
   private peopleOf(record: CanonicalRecord, signatureRows: SignatureRow[] = []): Map<string, string> {
-    const rows = this.db.select({ id: users.id, displayName: users.displayName }).from(users).all();
-    const ids = new Set([...record.entries.map((e) => e.userId), ...signatureRows.map((r) => r.userId)]);
-    return new Map(rows.filter((r) => ids.has(r.id)).map((r) => [r.id, r.displayName]));
+    const ids = [...new Set([...record.entries.map((e) => e.userId), ...signatureRows.map((r) => r.userId)])];
+    if (ids.length === 0) return new Map();
+    const rows = this.db.select({ id: users.id, displayName: users.displayName }).from(users).where(inArray(users.id, ids)).all();
+    return new Map(rows.map((r) => [r.id, r.displayName]));
   }
 
   // --- verification --------------------------------------------------------------------------

@@ -1,6 +1,6 @@
 import { Inject, Injectable } from '@nestjs/common';
 import type { SignatureMeaning } from '@steadyhand/shared';
-import { and, asc, eq, like } from 'drizzle-orm';
+import { and, asc, eq, inArray, like } from 'drizzle-orm';
 import { DB } from '../db/database.module.js';
 import type { Db } from '../db/database.js';
 import { attachments, auditEvents, settings, signatures } from '../db/schema/index.js';
@@ -22,6 +22,15 @@ export class SignaturesRepository {
   /** In signing order. */
   ofCode(codeId: string): SignatureRow[] {
     return this.db.select().from(signatures).where(eq(signatures.codeId, codeId)).orderBy(asc(signatures.signedAt), asc(signatures.id)).all();
+  }
+
+  /** Signatures of many codes in one query (the records list), each code's in signing order. */
+  ofCodes(codeIds: readonly string[]): Map<string, SignatureRow[]> {
+    const byCode = new Map<string, SignatureRow[]>(codeIds.map((id) => [id, []]));
+    if (codeIds.length === 0) return byCode;
+    const rows = this.db.select().from(signatures).where(inArray(signatures.codeId, [...codeIds])).orderBy(asc(signatures.signedAt), asc(signatures.id)).all();
+    for (const row of rows) byCode.get(row.codeId)?.push(row);
+    return byCode;
   }
 
   /** Codes with a signature over this digest (verification by digest alone). */

@@ -33,8 +33,8 @@ export function RecordTimeline({ view, protocol, onCorrect }: RecordTimelineProp
   );
   const who = (userId: string | undefined) => (userId ? (people[userId] ?? 'Unknown person') : '—');
   const recordedAt = (id: string) => {
-    const stored = record.entries.find((e) => e.id === id);
-    return stored ? formatClockTime(stored.recordedAt) : '';
+    const stored = byId.get(id);
+    return stored?.recordedAt ? formatClockTime(stored.recordedAt) : '';
   };
 
   return (
