@@ -25,11 +25,13 @@ type Step =
   | { kind: 'note'; text: string };
 
 const stepArb: fc.Arbitrary<Step> = fc.oneof(
-  { weight: 6, arbitrary: fc.constantFrom<'start' | 'stop' | 'swap'>('start', 'stop', 'swap').chain((action) =>
-    action === 'stop'
-      ? fc.constantFrom<'rhythm-check' | 'shock' | 'airway' | 'other'>('rhythm-check', 'shock', 'airway', 'other').map((reason) => ({ kind: 'cpr' as const, action, reason }))
-      : fc.constant({ kind: 'cpr' as const, action }),
-  ) },
+  {
+    weight: 6,
+    arbitrary: fc.oneof(
+      fc.constantFrom<Step>({ kind: 'cpr', action: 'start' }, { kind: 'cpr', action: 'swap' }),
+      fc.constantFrom<'rhythm-check' | 'shock' | 'airway' | 'other'>('rhythm-check', 'shock', 'airway', 'other').map((reason): Step => ({ kind: 'cpr', action: 'stop', reason })),
+    ),
+  },
   { weight: 3, arbitrary: fc.record({ kind: fc.constant('rhythm' as const), rhythm: fc.constantFrom<Rhythm>('vf', 'pvt', 'pea', 'asystole', 'organized', 'other'), pulse: fc.boolean() }) },
   { weight: 2, arbitrary: fc.record({ kind: fc.constant('shock' as const), joules: fc.constantFrom(120, 150, 200), synchronized: fc.boolean() }) },
   {

@@ -535,3 +535,25 @@ function remindersOf(timeline: Timeline, s: CodeState, etco2: readonly { atMs: n
   }
   return out.sort((a, b) => SEVERITY_RANK[a.severity] - SEVERITY_RANK[b.severity]);
 }
+
+/** GET /api/codes/:id/state?at=: the state at a moment, with its instants also in ISO 8601. */
+export interface CodeStateAnswer {
+  /** The moment asked for. */
+  at: string;
+  /** When the running cycle's rhythm check falls due; null when no cycle runs. */
+  rhythmCheckDueAt: string | null;
+  /** Due and overdue reminders at that moment, most urgent first. */
+  reminders: (Reminder & { at: string })[];
+  state: CodeState;
+}
+
+export function stateAnswer(state: CodeState): CodeStateAnswer {
+  const iso = (ms: number) => new Date(ms).toISOString();
+  const due = state.compressions.cycle?.checkDueAtMs;
+  return {
+    at: iso(state.atMs),
+    rhythmCheckDueAt: due === undefined ? null : iso(due),
+    reminders: state.reminders.map((r) => ({ ...r, at: iso(r.atMs) })),
+    state,
+  };
+}

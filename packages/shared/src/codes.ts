@@ -54,6 +54,11 @@ export const codeSchema = z.object({
 });
 export type Code = z.infer<typeof codeSchema>;
 
+/** GET /api/codes/:id/state?at=: any moment of the code (default: now). */
+export const codeStateQuerySchema = z
+  .object({ at: z.iso.datetime({ offset: true, message: 'at must be an ISO 8601 date-time, e.g. 2026-03-04T07:45:00.000Z' }).optional() })
+  .strict();
+
 export const listCodesQuerySchema = z.object({
   status: z.enum(CODE_STATUSES).optional(),
 });

@@ -1,6 +1,6 @@
 import { describe, it, expect } from 'vitest';
 import { computeDosing, DosingInputError, nextDose, nextShockJoules, type DosingSheet, type DoseLine, type DrugDosing } from './dosing.js';
-import { DEFAULT_PROTOCOL, parseStoredProtocol, type ProtocolSettings } from './protocol.js';
+import { DEFAULT_PROTOCOL, parseStoredProtocol, protocolSettingsSchema, type ProtocolSettings } from './protocol.js';
 
 /*
  * Check values come from the product's clinical reference sheet (sections 1, 2 and the
@@ -12,9 +12,8 @@ import { DEFAULT_PROTOCOL, parseStoredProtocol, type ProtocolSettings } from './
  * as published with the AHA 2010 PALS guidelines (Table 1) and repeated in the 2015 ECC Handbook
  * (a copy of the table; confirmed, primary copy). The protocol's edition says AHA 2020 for the
  * algorithms; that the 2020 pediatric guidelines (Topjian AA et al., Circulation 2020) left these
- * doses unchanged is from memory, and the edition string says so.
+ * doses unchanged is from memory, and the edition string says so. "PALS_TABLE" below names that table.
  */
-const PALS_TABLE = 'PALS medications table (AHA 2010 Table 1 / 2015 ECC Handbook, copy)';
 
 const peds = (weightKg: number | null, settings: ProtocolSettings = DEFAULT_PROTOCOL, ageMonths: number | null = null): DosingSheet =>
   computeDosing({ category: 'pediatric', weightKg, ageMonths }, settings);
@@ -367,6 +366,12 @@ describe('adult sheet', () => {
 });
 
 describe('the sheet as a whole', () => {
+  it('the published defaults pass the schema an admin\'s settings must pass', () => {
+    const parsed = protocolSettingsSchema.safeParse(JSON.parse(JSON.stringify(DEFAULT_PROTOCOL)));
+    expect(parsed.success ? [] : parsed.error.issues).toEqual([]);
+    expect(parsed.data).toEqual(DEFAULT_PROTOCOL);
+  });
+
   it('lists every catalogue drug in catalogue order, with its source and the protocol edition', () => {
     const sheet = peds(20);
     expect(sheet.drugs.map((d) => d.key)).toEqual(DEFAULT_PROTOCOL.drugs.map((d) => d.key));

@@ -83,7 +83,7 @@ export const drugDefinitionSchema = z.object({
   /** Drug-specific cautions shown with its doses. */
   cautions: z.array(z.string().min(1).max(240)).max(6).default([]),
   /** Where the default comes from, with its status (confirmed, secondary, from memory, common practice). */
-  source: z.string().max(400),
+  source: z.string().max(600),
 });
 export type DrugDefinition = z.infer<typeof drugDefinitionSchema>;
 

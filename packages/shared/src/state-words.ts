@@ -1,7 +1,7 @@
 import { formatElapsedMs, RHYTHM_CHECK_LEAD_MS, type CodeState, type Reminder } from './code-state.js';
 import { doseUnitLabel } from './drug-catalogue.js';
 import type { Rhythm } from './entries.js';
-import type { DrugAggregate } from './timeline.js';
+import type { DoseFact, DoseFlag, DrugAggregate } from './timeline.js';
 
 /**
  * What the pad's strip and the wall say about a moment of a code, in words: one reading per
@@ -177,4 +177,18 @@ export function dueCueKeys(s: CodeState): string[] {
   const e = s.epinephrine;
   if ((e.state === 'due' || e.state === 'overdue') && e.lastDoseAtMs !== null) keys.push(`epi:${e.lastDoseAtMs}`);
   return keys;
+}
+
+export const DOSE_FLAG_WORDS: Record<DoseFlag, string> = {
+  'past-max-doses': 'more doses than the protocol allows',
+  'past-max-total': 'past the total the protocol allows',
+  'above-dose': 'above the dose on the sheet',
+  'other-unit': "recorded in another unit than the catalogue's",
+  early: 'sooner than the epinephrine window',
+};
+
+/** One flagged dose in words: "Amiodarone dose 3, 150 mg: more doses than the protocol allows". */
+export function flaggedDoseText(d: DoseFact): string {
+  const expected = d.flags.includes('above-dose') && d.expectedDose !== null ? ` (sheet: ${Number(d.expectedDose.toPrecision(4))})` : '';
+  return `${d.label} dose ${d.number}, ${Number(d.dose.toPrecision(6))} ${doseUnitLabel(d.unit)}: ${d.flags.map((f) => DOSE_FLAG_WORDS[f]).join('; ')}${expected}`;
 }

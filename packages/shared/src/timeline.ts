@@ -314,6 +314,19 @@ export function foldLog(code: TimelineCode, entries: readonly LogEntry[], protoc
     }
     pause = null;
   };
+  /** The end closes whatever runs; a stop still open then was the last, not a pause of the code. */
+  const closeAtEnd = (t: number) => {
+    if (run) closeRun(t, 'end');
+    if (pause) endedStoppedSinceMs = pause.startMs;
+    closePause(t, 'end');
+    if (roscNow) {
+      roscNow.endMs = t;
+      roscNow.endedBy = 'end';
+      roscNow = null;
+    }
+    endCycle(t, 'end');
+    ended = true;
+  };
   /**
    * A rhythm check or a shock ends the cycle. Tapped during a pause: the next compressions
    * begin the next cycle. Tapped while compressions run: soon after a restart it belongs to
@@ -388,16 +401,7 @@ export function foldLog(code: TimelineCode, entries: readonly LogEntry[], protoc
       }
       case 'end': {
         // Only the log's first end entry reaches here (later ones are skipped above).
-        if (run) closeRun(t, 'end');
-        if (pause) endedStoppedSinceMs = pause.startMs;
-        closePause(t, 'end');
-        if (roscNow) {
-          roscNow.endMs = t;
-          roscNow.endedBy = 'end';
-          roscNow = null;
-        }
-        endCycle(t, 'end');
-        ended = true;
+        closeAtEnd(t);
         break;
       }
       case 'rhythm': {
@@ -493,16 +497,7 @@ export function foldLog(code: TimelineCode, entries: readonly LogEntry[], protoc
   }
 
   // A code ended on the code row only (no end entry): close there, as an end entry would.
-  if (!ended && end !== null) {
-    if (run) closeRun(end.atMs, 'end');
-    if (pause) endedStoppedSinceMs = (pause as PauseFact).startMs;
-    closePause(end.atMs, 'end');
-    if (roscNow) {
-      (roscNow as RoscFact).endMs = end.atMs;
-      (roscNow as RoscFact).endedBy = 'end';
-    }
-    endCycle(end.atMs, 'end');
-  }
+  if (!ended && end !== null) closeAtEnd(end.atMs);
   // A pause still open at the last entry stays open: stateAt closes it at its clock.
   if (pause) pauses.push(pause);
 

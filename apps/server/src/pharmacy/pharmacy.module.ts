@@ -1,6 +1,5 @@
 import { Module } from '@nestjs/common';
 import { CodesModule } from '../codes/codes.module.js';
-import { ProtocolModule } from '../protocol/protocol.module.js';
 import { UsersModule } from '../users/users.module.js';
 import { CartRestockService } from './cart-restock.service.js';
 import { PharmacyRepository } from './pharmacy.repository.js';
@@ -11,7 +10,7 @@ import { TraysService } from './trays.service.js';
 
 /** Tray templates, the pharmacist's worklist and drug reconciliation, restock lists. */
 @Module({
-  imports: [CodesModule, ProtocolModule, UsersModule],
+  imports: [CodesModule, UsersModule],
   controllers: [TraysController, ReconciliationController],
   providers: [PharmacyRepository, TraysService, ReconciliationService, CartRestockService],
 })

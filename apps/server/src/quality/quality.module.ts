@@ -1,6 +1,5 @@
 import { Module } from '@nestjs/common';
 import { CodesModule } from '../codes/codes.module.js';
-import { ProtocolModule } from '../protocol/protocol.module.js';
 import { UsersModule } from '../users/users.module.js';
 import { QualityMetricsService } from './quality-metrics.service.js';
 import { QualityController } from './quality.controller.js';
@@ -8,7 +7,7 @@ import { QualityRepository } from './quality.repository.js';
 import { QualityService } from './quality.service.js';
 
 @Module({
-  imports: [CodesModule, ProtocolModule, UsersModule],
+  imports: [CodesModule, UsersModule],
   controllers: [QualityController],
   providers: [QualityRepository, QualityService, QualityMetricsService],
 })

@@ -1,6 +1,5 @@
 import { Module } from '@nestjs/common';
 import { CodesModule } from '../codes/codes.module.js';
-import { ProtocolModule } from '../protocol/protocol.module.js';
 import { UsersModule } from '../users/users.module.js';
 import { RecordsController } from './records.controller.js';
 import { RecordsService } from './records.service.js';
@@ -8,7 +7,7 @@ import { SignaturesRepository } from './signatures.repository.js';
 
 /** The signed record: review details, signatures, addenda, the PDF and its verification. */
 @Module({
-  imports: [CodesModule, UsersModule, ProtocolModule],
+  imports: [CodesModule, UsersModule],
   controllers: [RecordsController],
   providers: [RecordsService, SignaturesRepository],
   exports: [RecordsService],
