@@ -71,12 +71,12 @@ describe('the recorder pad, in Chromium on a tablet', () => {
 
     // Ending is the one two-step action: End code, then the outcome.
     await pad.getByTestId('event-end').click();
-    await record('end-sustained-rosc');
+    await record('end-rosc');
 
     await poll(() => pad.getByTestId('sync-tile').innerText()).toContain('All saved');
     await poll(() => pad.locator('[data-pending="true"]').count()).toBe(0);
     expect(await pad.getByTestId('state-shocks').innerText()).toContain('200 J');
-    expect(await wall.getByTestId('ended-banner').innerText()).toContain('Sustained ROSC');
+    expect(await wall.getByTestId('ended-banner').innerText()).toContain('ROSC at the end of the code');
     expect(await pad.getByTestId('reminder-caution').innerText()).toContain(
       "Reminders support, and do not replace, the team leader's judgment, local protocol and licensed practice.",
     );
@@ -93,7 +93,7 @@ describe('the recorder pad, in Chromium on a tablet', () => {
     const seqs = log.entries.map((e) => e.seq ?? 0);
     expect(seqs).toEqual([...seqs].sort((a, b) => a - b));
     expect(log.code.status).toBe('ended');
-    expect(log.code.outcome).toBe('sustained-rosc');
+    expect(log.code.outcome).toBe('rosc');
     const amiodarone = log.entries.find((e) => e.kind === 'drug' && e.drug === 'amiodarone');
     expect(amiodarone).toMatchObject({ dose: 300, unit: 'mg', route: 'iv' });
 
@@ -167,26 +167,56 @@ describe('the recorder pad, in Chromium on a tablet', () => {
     await ctx.close();
   }, 240_000);
 
-  it('shows weight-based doses and energies with the double-check caution on a pediatric code', async () => {
+  it('records a child from "Start a code": 18 kg gives 36 J and 0.18 mg, and no 4th amiodarone without a second tap', async () => {
     const ctx = await newContext(run.browser, run.server.baseUrl);
     const pad = await ctx.newPage();
     await signInAs(pad, 'kofi.asante');
-    await startCodeFromHome(pad);
-    await pad.getByTestId('details-pediatric').click();
+    const codeId = await startCodeFromHome(pad, 'child');
     await pad.getByTestId('pediatric-caution').waitFor();
-    expect(await pad.getByTestId('pediatric-caution').innerText()).toContain(
-      'Double-check every weight-based dose with a second person.',
-    );
+    expect(await pad.getByTestId('pediatric-caution').innerText()).toContain('Double-check every weight-based dose with a second person.');
     await pad.getByTestId('details-weight').click();
-    await pad.getByTestId('numpad-2').click();
-    await pad.getByTestId('numpad-0').click();
+    await pad.getByTestId('weight-source-measured').click();
+    await pad.getByTestId('numpad-1').click();
+    await pad.getByTestId('numpad-8').click();
     await pad.getByTestId('number-save').click();
-    await poll(() => pad.getByTestId('drug-epinephrine').innerText()).toContain('0.2 mg');
-    expect(await pad.getByTestId('drug-epinephrine').innerText()).toContain('0.01 mg/kg × 20 kg');
-    expect(await pad.getByTestId('shock-40').innerText()).toContain('40 J');
-    await tap(pad, 'shock-40');
-    await poll(() => pad.getByTestId('state-shocks').innerText()).toContain('40 J');
+    // PALS medications table: epinephrine 0.01 mg/kg (0.18 mg for 18 kg); AHA 2020 PALS: first shock 2 J/kg (36 J).
+    await poll(() => pad.getByTestId('drug-epinephrine').innerText()).toContain('0.18 mg');
+    expect(await pad.getByTestId('drug-epinephrine').innerText()).toContain('0.01 mg/kg × 18 kg');
+    expect(await pad.getByTestId('shock-36').innerText()).toContain('36 J');
+    await tap(pad, 'cpr-start');
+    await tap(pad, 'shock-36');
+    await poll(() => pad.getByTestId('state-shocks').innerText()).toContain('36 J');
+
+    // PALS medications table: amiodarone 5 mg/kg, may repeat twice (90 mg, three doses for 18 kg).
+    for (let i = 1; i <= 3; i++) {
+      await poll(() => pad.getByTestId('drug-amiodarone').innerText()).toContain('90 mg');
+      await tap(pad, 'drug-amiodarone');
+    }
+    await poll(() => pad.getByTestId('drug-limit-amiodarone').innerText()).toContain('Limit reached: 3 of 3 doses given');
+    const before = (await storedLog(pad, codeId)).entries.length;
+    await pad.getByTestId('drug-amiodarone').click();
+    expect(await pad.getByTestId('drug-amiodarone').innerText()).toContain('Tap again to record');
+    await poll(() => pad.getByTestId('sync-tile').innerText()).toContain('All saved');
+    expect((await storedLog(pad, codeId)).entries.length).toBe(before);
     console.warn(`[screenshot] ${await screenshot(pad, 'recorder-pad-pediatric')}`);
+
+    // After the code: the review replays the wall at any moment, from the code's own protocol version.
+    await pad.getByTestId('event-end').click();
+    await tap(pad, 'end-died');
+    await pad.getByTestId('ended-review').click();
+    await pad.getByTestId('review-replay').waitFor();
+    expect(await pad.getByTestId('replay-wall').innerText()).toContain('18 kg');
+    await pad.getByTestId('review-replay').getByRole('slider').focus();
+    await pad.keyboard.press('Home');
+    await poll(() => pad.getByTestId('replay-moment').innerText()).toMatch(/^\+0:00/);
+    await poll(() => pad.getByTestId('replay-wall').innerText()).toContain('NOT STARTED');
+    console.warn(`[screenshot] ${await screenshot(pad, 'review-replay')}`);
+
+    // Back to the pad in the same tab: the pad still reads its protocol version (one owner, one shape per key).
+    await pad.goBack();
+    await pad.getByTestId('recorder-pad').waitFor();
+    await poll(() => pad.getByTestId('drug-epinephrine').innerText()).toContain('0.18 mg');
+    expect(await pad.getByTestId('status-strip').innerText()).toContain('ENDED');
     await ctx.close();
   }, 240_000);
 });

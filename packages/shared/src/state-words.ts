@@ -1,6 +1,6 @@
 import { formatElapsedMs, RHYTHM_CHECK_LEAD_MS, type CodeState, type Reminder } from './code-state.js';
 import { doseUnitLabel } from './drug-catalogue.js';
-import type { Rhythm } from './entries.js';
+import type { Outcome, Rhythm } from './entries.js';
 import type { DoseFact, DoseFlag, DrugAggregate } from './timeline.js';
 
 /**
@@ -31,6 +31,15 @@ export const RHYTHM_WORDS: Record<Rhythm, string> = {
   asystole: 'Asystole',
   organized: 'Organised',
   other: 'Other rhythm',
+};
+
+/** How a code ended; the older and the current word for ending in ROSC read the same. */
+export const OUTCOME_WORDS: Record<Outcome, string> = {
+  'sustained-rosc': 'ROSC at the end of the code',
+  rosc: 'ROSC at the end of the code',
+  died: 'Died',
+  transferred: 'Transferred',
+  other: 'Other outcome',
 };
 
 export const PAUSE_WORDS = {

@@ -6,9 +6,10 @@ export function poll<T>(fn: () => T | Promise<T>, options: { timeout?: number } 
   return expect.poll(fn, { timeout: 15_000, interval: 50, ...options });
 }
 
-/** Starts a code from the home page the way a recorder does, and returns its id. */
-export async function startCodeFromHome(page: Page): Promise<string> {
+/** Starts a code from the home page the way a recorder does (adult or child first), and returns its id. */
+export async function startCodeFromHome(page: Page, category: 'adult' | 'child' = 'adult'): Promise<string> {
   await page.getByRole('button', { name: 'Start a code' }).click();
+  await page.getByTestId(`start-${category}`).click();
   await page.waitForURL(/\/codes\/[^/]+\/record$/);
   await page.getByTestId('recorder-pad').waitFor();
   const match = /\/codes\/([^/]+)\/record$/.exec(new URL(page.url()).pathname);

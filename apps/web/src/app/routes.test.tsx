@@ -91,12 +91,14 @@ describe('routes', () => {
       signedIn((url) => {
         if (url === '/api/codes') return { status: 201, body: { code: { id: 'code-42' } } };
         if (url === '/api/codes/code-42') return { body: { code: CODE_42, entries: [] } };
-        if (url === '/api/protocol') return { body: { protocol: DEFAULT_PROTOCOL } };
+        if (url === '/api/protocol/versions/1') return { body: { version: 1, protocol: DEFAULT_PROTOCOL } };
         return { status: 404 };
       }),
     );
 
     fireEvent.click(await screen.findByRole('button', { name: 'Start a code' }));
+    // Adult or child first: every dose and energy follows from it.
+    fireEvent.click(await screen.findByTestId('start-adult'));
 
     const pad = await screen.findByTestId('recorder-pad', {}, { timeout: 5_000 });
     expect(pad.getAttribute('data-code-id')).toBe('code-42');
@@ -154,6 +156,7 @@ describe('routes', () => {
     await router.navigate('/?tab=live');
 
     fireEvent.click(await screen.findByRole('button', { name: 'Start a code' }));
+    fireEvent.click(await screen.findByTestId('start-adult'));
 
     expect(await screen.findByRole('heading', { level: 1, name: 'Sign in' })).toBeTruthy();
     expect(new URLSearchParams(router.state.location.search).get('next')).toBe('/?tab=live');

@@ -1,5 +1,5 @@
 import { DataList, SimpleGrid } from '@chakra-ui/react';
-import { SUMMARY_DEFINITIONS, type CodeSummary } from '@steadyhand/shared';
+import { flaggedDoseText, SUMMARY_DEFINITIONS, type CodeSummary } from '@steadyhand/shared';
 import { formatDateTime, formatPercent, formatSeconds } from '../lib/format';
 import { OUTCOME_WORDS, RHYTHM_WORDS } from '../lib/live/entry-words';
 
@@ -14,12 +14,15 @@ export function SummaryFacts({ summary }: { summary: CodeSummary }) {
     ['To first ROSC', formatSeconds(summary.intervals.arrestToFirstRosc), SUMMARY_DEFINITIONS.arrestToFirstRosc],
     ['Duration', formatSeconds(summary.durationSeconds), SUMMARY_DEFINITIONS.durationSeconds],
     ['First rhythm', summary.firstRhythm ? RHYTHM_WORDS[summary.firstRhythm] : 'None recorded', SUMMARY_DEFINITIONS.firstRhythm],
-    ['Any ROSC / sustained', `${summary.anyRosc ? 'Yes' : 'No'} / ${summary.sustainedRosc ? 'Yes' : 'No'}`, SUMMARY_DEFINITIONS.sustainedRosc],
+    ['Any ROSC', summary.anyRosc ? 'Yes' : 'No', SUMMARY_DEFINITIONS.anyRosc],
+    ['Sustained ROSC', summary.sustainedRoscText, SUMMARY_DEFINITIONS.sustainedRosc],
     ['Outcome', summary.outcome ? OUTCOME_WORDS[summary.outcome] : '—', SUMMARY_DEFINITIONS.outcome],
-    ['Compression fraction', formatPercent(summary.compressionFraction), SUMMARY_DEFINITIONS.compressionFraction],
+    ['Compression fraction (from taps)', formatPercent(summary.compressionFraction), SUMMARY_DEFINITIONS.compressionFraction],
     ['Longest pause', summary.longestPause ? `${Math.round(summary.longestPause.seconds)} s` : '—', SUMMARY_DEFINITIONS.longestPause],
     ['Pauses over 10 s', String(summary.longPauses.length), SUMMARY_DEFINITIONS.longPauses],
-    ['Shocks', summary.shocks.map((s) => `${s.joules} J${s.synchronized ? ' sync' : ''}`).join(', ') || 'None', SUMMARY_DEFINITIONS.shocks],
+    ['Shocks', summary.shocks.map((s) => `${s.joules} J${s.synchronized ? ' synchronised' : ''}`).join(', ') || 'None', SUMMARY_DEFINITIONS.shocks],
+    ['Doses to check', summary.flaggedDoses.map(flaggedDoseText).join('; ') || 'None', SUMMARY_DEFINITIONS.flaggedDoses],
+    ['Protocol', `Version ${summary.protocolVersion ?? 1}: ${summary.protocolEdition}`, SUMMARY_DEFINITIONS.protocolVersion],
     ['Drugs', summary.drugTotals.map((d) => `${d.label} ${d.total} ${d.unit} (${d.doses})`).join('; ') || 'None', SUMMARY_DEFINITIONS.drugTotals],
   ];
   return (

@@ -1,28 +1,16 @@
 import {
   doseUnitLabel,
+  OUTCOME_WORDS,
+  PAUSE_WORDS,
+  RHYTHM_WORDS,
   type LogEntry,
   type ProtocolSettings,
-  type Rhythm,
 } from '@steadyhand/shared';
 
 /** The words the pad and the recent list use. Clinical words are the trade's own. */
 
-export const RHYTHM_WORDS: Record<Rhythm, string> = {
-  vf: 'VF',
-  pvt: 'pVT',
-  pea: 'PEA',
-  asystole: 'Asystole',
-  organized: 'Organised',
-  other: 'Other rhythm',
-};
-
-export const PAUSE_WORDS = {
-  'rhythm-check': 'rhythm check',
-  shock: 'shock',
-  airway: 'airway',
-  rosc: 'ROSC',
-  other: 'other reason',
-} as const;
+// The clinical words the strip, the wall and the record share live with the core.
+export { OUTCOME_WORDS, PAUSE_WORDS, RHYTHM_WORDS } from '@steadyhand/shared';
 
 export const ROUTE_WORDS = { iv: 'IV', io: 'IO', et: 'ET', other: 'other route' } as const;
 
@@ -32,12 +20,6 @@ export const AIRWAY_WORDS = {
   endotracheal: 'Endotracheal tube',
 } as const;
 
-export const OUTCOME_WORDS = {
-  'sustained-rosc': 'Sustained ROSC',
-  died: 'Died',
-  transferred: 'Transferred',
-  other: 'Other outcome',
-} as const;
 
 export function formatDose(dose: number): string {
   return String(Number(dose.toPrecision(6)));

@@ -52,7 +52,8 @@ export interface LogCacheRecord {
 }
 
 interface ProtocolCacheRecord {
-  key: 'protocol';
+  /** 'protocol:<version>', and 'protocol' for the last version seen. */
+  key: string;
   protocol: ProtocolSettings;
 }
 
@@ -178,16 +179,19 @@ export async function writeLogCache(record: LogCacheRecord): Promise<void> {
   });
 }
 
-export async function readCachedProtocol(): Promise<ProtocolSettings | null> {
+/** A protocol version this device has seen (null: the last one seen, whatever its number). */
+export async function readCachedProtocol(version: number | null): Promise<ProtocolSettings | null> {
   return readTx([STORES.device], async (tx) => {
-    const rec = (await requestResult(tx.objectStore(STORES.device).get('protocol'))) as
+    const rec = (await requestResult(tx.objectStore(STORES.device).get(version === null ? 'protocol' : `protocol:${version}`))) as
       ProtocolCacheRecord | undefined;
     return rec?.protocol ?? null;
   });
 }
 
-export async function writeCachedProtocol(protocol: ProtocolSettings): Promise<void> {
+export async function writeCachedProtocol(version: number, protocol: ProtocolSettings): Promise<void> {
   await writeTx([STORES.device], (tx) => {
-    tx.objectStore(STORES.device).put({ key: 'protocol', protocol } satisfies ProtocolCacheRecord);
+    const store = tx.objectStore(STORES.device);
+    store.put({ key: `protocol:${version}`, protocol } satisfies ProtocolCacheRecord);
+    store.put({ key: 'protocol', protocol } satisfies ProtocolCacheRecord);
   });
 }

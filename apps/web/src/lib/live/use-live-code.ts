@@ -1,7 +1,5 @@
 import {
   codeSchema,
-  DEFAULT_PROTOCOL,
-  protocolSettingsSchema,
   type Code,
   type LogEntry,
   type NewEntry,
@@ -11,6 +9,7 @@ import {
 import { queryOptions, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useCallback, useEffect, useMemo, useState, useSyncExternalStore } from 'react';
 import { api, isApiError } from '../api-client';
+import { useCodeProtocol } from '../protocol';
 import { getClockSync, type ClockState } from './clock-sync';
 import type { EntryFields } from './entry-build';
 import { getLiveLink, type LinkState } from './live-socket';
@@ -18,10 +17,8 @@ import {
   addToOutbox,
   countOutbox,
   onOutboxChange,
-  readCachedProtocol,
   readLogCache,
   retryFailed,
-  writeCachedProtocol,
   type OutboxRecord,
 } from './outbox';
 import {
@@ -79,7 +76,6 @@ function useCodeSync(codeId: string): CodeSync {
 const isNetworkFailure = (err: unknown) => !isApiError(err);
 
 export const codeDetailQueryKey = (codeId: string) => ['codes', 'detail', codeId] as const;
-export const protocolQueryKey = ['protocol'] as const;
 
 /** GET /api/codes/:id; offline, the copy this device last saw. */
 async function fetchCode(codeId: string, sync: CodeSync): Promise<Code> {
@@ -99,19 +95,6 @@ async function fetchCode(codeId: string, sync: CodeSync): Promise<Code> {
   }
 }
 
-/** GET /api/protocol; offline, the copy this device last saw, or the shipped defaults. */
-async function fetchProtocol(): Promise<ProtocolSettings> {
-  try {
-    const body = (await api.get('/api/protocol')) as { protocol: unknown };
-    const protocol = protocolSettingsSchema.parse(body.protocol);
-    void writeCachedProtocol(protocol).catch(() => undefined);
-    return protocol;
-  } catch (err) {
-    if (!isNetworkFailure(err)) throw err;
-    return (await readCachedProtocol().catch(() => null)) ?? DEFAULT_PROTOCOL;
-  }
-}
-
 const codeQueryOptions = (codeId: string, sync: CodeSync) =>
   queryOptions({
     queryKey: codeDetailQueryKey(codeId),
@@ -120,8 +103,6 @@ const codeQueryOptions = (codeId: string, sync: CodeSync) =>
     retry: (count, err) => isNetworkFailure(err) && count < 2,
   });
 
-export const protocolQueryOptions = () =>
-  queryOptions({ queryKey: protocolQueryKey, queryFn: fetchProtocol, staleTime: 5 * 60_000 });
 
 /* ------------------------------------------------------------------------------------------ */
 
@@ -194,7 +175,6 @@ export function useLiveCode(codeId: string): LiveCode {
   const clockState = useClockState();
   const records = useSenderRecords();
   const codeQuery = useQuery(codeQueryOptions(codeId, sync));
-  const protocolQuery = useQuery(protocolQueryOptions());
 
   const [alarm, setAlarm] = useState(false);
   useEffect(() => {
@@ -213,6 +193,7 @@ export function useLiveCode(codeId: string): LiveCode {
   }, [anyWaiting]);
 
   const code = codeQuery.data ?? snap.code;
+  const protocolQuery = useCodeProtocol(code ? code.protocolVersion : undefined);
   const health = outboxHealth(
     records,
     Math.max(

@@ -8,7 +8,6 @@ import { PageSpinner } from '../../../components/ui/page-status';
 import { PageTitle } from '../../../components/ui/page-title';
 import { paths } from '../../../config/paths';
 import { useCurrentUser } from '../../../features/auth/hooks/use-current-user';
-import { useProtocol } from '../../../features/protocol/api/get-protocol';
 import { useCodeSummary, useRecordView } from '../../../features/records/api/records-api';
 import { AttachmentsPanel } from '../../../features/records/components/attachments-panel';
 import { CorrectionDialog } from '../../../features/records/components/correction-dialog';
@@ -22,12 +21,15 @@ import {
 import { ReviewDetailsForm } from '../../../features/records/components/review-details-form';
 import { SignaturesPanel } from '../../../features/records/components/signatures-panel';
 import { formatDateTime } from '../../../lib/format';
+import { useCodeProtocol } from '../../../lib/protocol';
+import { ReviewReplay } from './review-replay';
 
 function CodeReview({ codeId }: { codeId: string }) {
   const user = useCurrentUser();
   const view = useRecordView(codeId);
   const summary = useCodeSummary(codeId);
-  const protocol = useProtocol();
+  // The version the code started with: an admin's later change never alters its record.
+  const protocol = useCodeProtocol(view.data ? (view.data.record.code.protocolVersion ?? null) : undefined);
   const [correcting, setCorrecting] = useState<CorrectionTarget | null>(null);
 
   if (view.isPending) return <PageSpinner label="Loading the record…" />;
@@ -99,11 +101,13 @@ function CodeReview({ codeId }: { codeId: string }) {
         </Text>
         <RecordTimeline
           view={view.data}
-          protocol={protocol.data?.protocol ?? null}
+          protocol={protocol.data ?? null}
           onCorrect={writer && ended ? setCorrecting : undefined}
         />
         {writer && ended ? <NoteForm codeId={code.id} status={status} /> : null}
       </Stack>
+
+      {protocol.data ? <ReviewReplay record={record} protocol={protocol.data} /> : null}
 
       <SimpleGrid columns={{ base: 1, xl: 2 }} gap="10">
         <ReviewDetailsForm code={code} editable={writer && ended && status === 'draft'} />
@@ -117,7 +121,7 @@ function CodeReview({ codeId }: { codeId: string }) {
         codeId={code.id}
         status={status}
         target={correcting}
-        protocol={protocol.data?.protocol ?? null}
+        protocol={protocol.data ?? null}
         onClose={() => setCorrecting(null)}
       />
     </Stack>

@@ -1,5 +1,6 @@
-import { Badge, Box, Button, Flex, Spinner, Stack, Text } from '@chakra-ui/react';
-import type { Role } from '@steadyhand/shared';
+import { Badge, Box, Button, Flex, SimpleGrid, Spinner, Stack, Text } from '@chakra-ui/react';
+import type { CodeCategory, Role } from '@steadyhand/shared';
+import { useState } from 'react';
 import dayjs from 'dayjs';
 import { Link as RouterLink, useNavigate } from 'react-router';
 import { ErrorMessage } from '../../../components/ui/error-message';
@@ -36,19 +37,7 @@ export function LiveCodesPanel({ roles }: { roles: readonly Role[] }) {
       title="Live codes"
       description="Start a code the moment an arrest is called; the location and details can follow."
     >
-      <Button
-        colorPalette="brand"
-        size="2xl"
-        w={{ base: 'full', md: 'auto' }}
-        minW={{ md: '20rem' }}
-        loading={startCode.isPending}
-        loadingText="Starting…"
-        onClick={() => {
-          startCode.mutate({ category: 'adult' });
-        }}
-      >
-        Start a code
-      </Button>
+      <StartCode starting={startCode.isPending} onStart={(category) => startCode.mutate({ category })} />
       {startCode.isError ? (
         <ErrorMessage title="The code was not started" message={startCode.error.message} />
       ) : null}
@@ -57,6 +46,41 @@ export function LiveCodesPanel({ roles }: { roles: readonly Role[] }) {
         <RouterLink to={paths.wallBoard.getHref()}>Board of all live codes</RouterLink>
       </Button>
     </HomePanel>
+  );
+}
+
+/**
+ * Starting a code asks one question first, adult or child, because every dose and energy
+ * follows from it; a child's weight can be given on the pad right after.
+ */
+function StartCode({ starting, onStart }: { starting: boolean; onStart: (category: CodeCategory) => void }) {
+  const [asking, setAsking] = useState(false);
+  if (!asking)
+    return (
+      <Button colorPalette="brand" size="2xl" w={{ base: 'full', md: 'auto' }} minW={{ md: '20rem' }} data-testid="start-code" onClick={() => setAsking(true)}>
+        Start a code
+      </Button>
+    );
+  return (
+    <Stack gap="2" role="group" aria-labelledby="start-question" data-testid="start-choice">
+      <Text id="start-question" textStyle="xl" fontWeight="bold">
+        Who is the patient?
+      </Text>
+      <SimpleGrid columns={2} gap="3" maxW="40rem">
+        <Button colorPalette="brand" size="2xl" minH="24" loading={starting} data-testid="start-adult" onClick={() => onStart('adult')}>
+          Adult
+        </Button>
+        <Button colorPalette="ink" size="2xl" minH="24" loading={starting} data-testid="start-child" onClick={() => onStart('pediatric')}>
+          Child
+          <Text as="span" textStyle="sm" display="block" fontWeight="normal">
+            weight next
+          </Text>
+        </Button>
+      </SimpleGrid>
+      <Button variant="ghost" alignSelf="start" onClick={() => setAsking(false)} disabled={starting}>
+        Cancel
+      </Button>
+    </Stack>
   );
 }
 

@@ -1,23 +1,2 @@
-import { protocolSettingsSchema, type ProtocolDocument } from '@steadyhand/shared';
-import { queryOptions, useQuery } from '@tanstack/react-query';
-import { z } from 'zod';
-import { api } from '../../../lib/api-client';
-
-// Checked on arrival: the admin form is filled from this, so a malformed answer must not reach it.
-export const protocolDocumentSchema = z.object({
-  protocol: protocolSettingsSchema,
-  updatedAt: z.string().nullable(),
-  updatedBy: z.string().nullable(),
-});
-
-export const protocolQueryKey = ['protocol'] as const;
-
-export async function getProtocol(): Promise<ProtocolDocument> {
-  return protocolDocumentSchema.parse(await api.get('/api/protocol'));
-}
-
-export const protocolQueryOptions = () => queryOptions({ queryKey: protocolQueryKey, queryFn: getProtocol });
-
-export function useProtocol() {
-  return useQuery(protocolQueryOptions());
-}
+// The protocol queries live in src/lib (one owner, one shape per key); the admin page reads the document.
+export { protocolDocumentSchema, protocolKeys, useProtocolDocument as useProtocol } from '../../../lib/protocol';

@@ -1,7 +1,7 @@
 import type { ProtocolDocument, ProtocolSettings } from '@steadyhand/shared';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
-import { protocolDocumentSchema, protocolQueryKey } from './get-protocol';
+import { protocolDocumentSchema, protocolKeys } from './get-protocol';
 
 export async function saveProtocol(settings: ProtocolSettings): Promise<ProtocolDocument> {
   return protocolDocumentSchema.parse(await api.put('/api/protocol', settings));
@@ -17,7 +17,7 @@ function useProtocolMutation<T>(mutationFn: (input: T) => Promise<ProtocolDocume
     mutationFn,
     onSuccess: (doc) => {
       // The server's answer is the settings now in force; no second fetch needed.
-      queryClient.setQueryData(protocolQueryKey, doc);
+      queryClient.setQueryData(protocolKeys.document, doc);
       onSuccess?.(doc);
     },
   });

@@ -8,7 +8,7 @@ import { headerOf, mockFetch } from '../../../testing/fetch-mock';
 import { renderWithProviders } from '../../../testing/render';
 import { ProtocolForm, PROTOCOL_CAUTION } from './protocol-form';
 
-const neverSaved = { protocol: DEFAULT_PROTOCOL, updatedAt: null, updatedBy: null };
+const neverSaved = { protocol: DEFAULT_PROTOCOL, version: 1, updatedAt: null, updatedBy: null };
 
 function type(label: RegExp, value: string) {
   const input = screen.getByLabelText(label);
@@ -48,7 +48,7 @@ describe('ProtocolForm', { timeout: 20_000 }, () => {
       if (url === '/api/protocol' && init?.method === 'PUT') {
         const body = JSON.parse(init.body as string) as ProtocolSettings;
         saved.push(body);
-        return { body: { protocol: body, updatedAt: '2026-03-04T07:42:10.000Z', updatedBy: 'Sofia Delacroix' } };
+        return { body: { protocol: body, version: 2, updatedAt: '2026-03-04T07:42:10.000Z', updatedBy: 'Sofia Delacroix' } };
       }
       return { status: 404 };
     });

@@ -3,7 +3,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { protocolSettingsSchema, type ProtocolDocument, type ProtocolSettings } from '@steadyhand/shared';
 import dayjs from 'dayjs';
 import { useMemo, useState, type ReactNode } from 'react';
-import { FormProvider, useForm, type FieldPath } from 'react-hook-form';
+import { FormProvider, useForm, type FieldPath, type Resolver } from 'react-hook-form';
 import { ErrorMessage } from '../../../components/ui/error-message';
 import { isApiError } from '../../../lib/api-client';
 import { useResetProtocol, useSaveProtocol } from '../api/save-protocol';
@@ -13,12 +13,9 @@ import { friendlyError, NumberField, NumberListField, SecondsField, TextField } 
 export const PROTOCOL_CAUTION =
   "These values drive the reminders and dose suggestions on every screen. They support, and do not replace, the team leader's judgment, local protocol and licensed practice. Check every change against your institution's protocol and formulary.";
 
-/** Empty optional parts are left out, so the stored settings carry no blank rules. */
+/** Fields left empty are left out (no blank limits), so the stored settings say only what was set. */
 function tidy(values: ProtocolSettings): ProtocolSettings {
-  return {
-    ...values,
-    drugs: values.drugs.map(({ pediatric, ...drug }) => (pediatric && pediatric.length > 0 ? { ...drug, pediatric } : drug)),
-  };
+  return JSON.parse(JSON.stringify(values)) as ProtocolSettings;
 }
 
 function lastChanged(doc: ProtocolDocument): string {
@@ -47,7 +44,8 @@ function Section({ title, description, children }: { title: string; description?
 /** The admin's editor for the local protocol: the whole settings, validated by the shared schema. */
 export function ProtocolForm({ document }: { document: ProtocolDocument }) {
   const form = useForm<ProtocolSettings>({
-    resolver: zodResolver(protocolSettingsSchema, { error: friendlyError }),
+    // The schema fills defaults for settings older versions lacked; the form always holds them all.
+    resolver: zodResolver(protocolSettingsSchema, { error: friendlyError }) as Resolver<ProtocolSettings>,
     defaultValues: document.protocol,
     mode: 'onTouched',
   });

@@ -1,5 +1,5 @@
 import { Button, Field, Input, NativeSelect, SimpleGrid } from '@chakra-ui/react';
-import { OUTCOMES, QUALITY_TARGET_IDS, RHYTHMS, type QualityUnit } from '@steadyhand/shared';
+import { END_OUTCOME_CHOICES, QUALITY_TARGET_IDS, RHYTHMS, type QualityUnit } from '@steadyhand/shared';
 import type { QualityListParams } from '../api/get-quality-codes';
 import { OUTCOME_WORDS, RHYTHM_WORDS, TARGET_WORDS } from './words';
 
@@ -49,7 +49,7 @@ export function QualityFilters({ params, units, onChange, onClear }: Props) {
         options={[...RHYTHMS.map((r): [string, string] => [r, RHYTHM_WORDS[r]]), ['none', 'None recorded']]}
         onChange={(v) => onChange({ firstRhythm: v })}
       />
-      <Choice label="Outcome" name="outcome" value={params.outcome} options={OUTCOMES.map((o) => [o, OUTCOME_WORDS[o]])} onChange={(v) => onChange({ outcome: v })} />
+      <Choice label="Outcome" name="outcome" value={params.outcome} options={END_OUTCOME_CHOICES.map((o) => [o, OUTCOME_WORDS[o]])} onChange={(v) => onChange({ outcome: v })} />
       <Choice
         label="Target missed"
         name="missed"

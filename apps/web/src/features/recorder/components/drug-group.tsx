@@ -1,12 +1,15 @@
 import { Box, SimpleGrid, Text } from '@chakra-ui/react';
 import {
   doseUnitLabel,
-  nextDoseFor,
+  drugTotalText,
   type DosingSheet,
   type DoseLine,
+  type DrugAggregate,
   type DrugDefinition,
+  type NextDose,
   type ProtocolSettings,
 } from '@steadyhand/shared';
+import { useEffect, useState } from 'react';
 import { formatDose, ROUTE_WORDS } from '../../../lib/live/entry-words';
 import { PadButton } from './pad-button';
 import { PadGroup } from './pad-group';
@@ -17,55 +20,38 @@ export interface DrugTapPlan {
   dose: DoseLine | null;
 }
 
+/** How long a limit button stays armed for its second tap. Our own choice. */
+export const LIMIT_CONFIRM_MS = 5_000;
+
 interface DrugGroupProps {
   protocol: ProtocolSettings;
   sheet: DosingSheet | null;
-  /** Doses of each catalogue drug so far (voided ones left out). */
-  givenCount: (key: string) => number;
+  /** Per catalogue drug: the next dose, or the limit reached (the clinical core's reading). */
+  nextDoses: Readonly<Record<string, NextDose>>;
+  /** What has been given so far, per drug (voided doses left out). */
+  totals: readonly DrugAggregate[];
   pediatric: boolean;
   disabled: boolean;
   onDrug: (plan: DrugTapPlan) => void;
   onOtherDrug: () => void;
 }
 
-function doseSequence(
-  drug: DrugDefinition,
-  sheet: DosingSheet | null,
-  given: number,
-): string | null {
-  const lines = sheet?.drugs.find((d) => d.key === drug.key)?.doses ?? [];
-  if (lines.length < 2) return null;
-  const next = Math.min(given, lines.length - 1);
-  const later = lines[next + 1];
-  return later ? `dose ${next + 1}, then ${later.display}` : `dose ${next + 1}`;
-}
-
 /**
  * One tap records the next dose from the protocol (or the weight-based sheet) by the default
  * route; the dose and route can be changed right after from the Undo bar.
  */
-export function DrugGroup({
-  protocol,
-  sheet,
-  givenCount,
-  pediatric,
-  disabled,
-  onDrug,
-  onOtherDrug,
-}: DrugGroupProps) {
+export function DrugGroup({ protocol, sheet, nextDoses, totals, pediatric, disabled, onDrug, onOtherDrug }: DrugGroupProps) {
+  // A drug past its limit asks for a second tap: the first arms it, the second records.
+  const [armed, setArmed] = useState<string | null>(null);
+  useEffect(() => {
+    if (armed === null) return;
+    const timer = setTimeout(() => setArmed(null), LIMIT_CONFIRM_MS);
+    return () => clearTimeout(timer);
+  }, [armed]);
   return (
     <PadGroup title="Drugs" id="drugs" accent="seaglass.400">
       {pediatric ? (
-        <Box
-          bg="signal.50"
-          borderWidth="2px"
-          borderColor="signal.500"
-          borderRadius="l2"
-          px="3"
-          py="2"
-          mb="2"
-          data-testid="pediatric-caution"
-        >
+        <Box bg="signal.50" borderWidth="2px" borderColor="signal.500" borderRadius="l2" px="3" py="2" mb="2" data-testid="pediatric-caution">
           <Text textStyle="md" fontWeight="bold">
             Double-check every weight-based dose with a second person.
           </Text>
@@ -78,42 +64,57 @@ export function DrugGroup({
       ) : null}
       <SimpleGrid columns={{ base: 2, sm: 3, lg: 4 }} gap="2">
         {protocol.drugs.map((drug) => {
-          const given = givenCount(drug.key);
-          const dose = sheet ? nextDoseFor(sheet, drug.key, given) : null;
+          const next = nextDoses[drug.key];
+          const dose = next?.line ?? null;
+          const limit = next?.limit ?? null;
+          const dosing = sheet?.drugs.find((d) => d.key === drug.key);
+          const given = totals.find((t) => t.key === drug.key);
           const route = ROUTE_WORDS[drug.route];
-          const seq = doseSequence(drug, sheet, given);
+          const isArmed = armed === drug.key;
+          const detail = limit ? (
+            <>
+              <Box textStyle="md" data-testid={`drug-limit-${drug.key}`}>
+                {limit.message}
+              </Box>
+              <Box>{isArmed ? `Tap again to record ${dose?.display ?? ''} anyway` : 'Tap twice to record another'}</Box>
+            </>
+          ) : dose ? (
+            <>
+              <Box textStyle="md">{`${dose.display} ${route}`}</Box>
+              {dosing && dosing.maxDoses !== null ? <Box fontWeight="normal">{`dose ${dose.doseNumber} of ${dosing.maxDoses}`}</Box> : null}
+              {pediatric || dose.basis !== 'fixed' ? <Box fontWeight="normal">{dose.formula}</Box> : null}
+              {dose.volumeText ? <Box fontWeight="normal">{dose.volumeText}</Box> : null}
+              {dose.capNote ? <Box>{dose.capNote}</Box> : null}
+              {given ? <Box fontWeight="normal">{`${given.doseCount} given · ${drugTotalText(given)}`}</Box> : null}
+            </>
+          ) : (
+            <Box>{pediatric ? 'Weight needed: tap to enter dose' : `Enter dose (${doseUnitLabel(drug.unit)})`}</Box>
+          );
           return (
             <PadButton
               key={drug.key}
               label={drug.label}
-              colorPalette="brand"
-              emphasis={false}
+              colorPalette={limit ? 'signal' : 'brand'}
+              emphasis={isArmed}
               disabled={disabled}
               data-testid={`drug-${drug.key}`}
+              data-limit={limit ? limit.kind : undefined}
               aria-label={
-                dose ? `${drug.label} ${dose.display} ${route}` : `${drug.label}, enter the dose`
+                limit
+                  ? `${drug.label}: ${limit.message}. ${isArmed ? 'Tap again to record anyway' : 'Tap twice to record another'}`
+                  : dose
+                    ? `${drug.label} ${dose.display} ${route}`
+                    : `${drug.label}, enter the dose`
               }
-              detail={
-                dose ? (
-                  <>
-                    <Box textStyle="md">{`${dose.display} ${route}`}</Box>
-                    {seq ? <Box fontWeight="normal">{seq}</Box> : null}
-                    {pediatric ? <Box fontWeight="normal">{dose.formula}</Box> : null}
-                    {pediatric && dose.volumeText ? (
-                      <Box fontWeight="normal">{dose.volumeText}</Box>
-                    ) : null}
-                    {dose.capNote ? <Box>{dose.capNote}</Box> : null}
-                    {given > 0 ? <Box fontWeight="normal">{`${given} given`}</Box> : null}
-                  </>
-                ) : (
-                  <Box>
-                    {pediatric
-                      ? 'Weight needed: tap to enter dose'
-                      : `Enter dose (${doseUnitLabel(drug.unit)})`}
-                  </Box>
-                )
-              }
-              onClick={() => onDrug({ drug, dose })}
+              detail={detail}
+              onClick={() => {
+                if (limit && !isArmed) {
+                  setArmed(drug.key);
+                  return;
+                }
+                setArmed(null);
+                onDrug({ drug, dose });
+              }}
             />
           );
         })}

@@ -1,5 +1,5 @@
 import { SimpleGrid, Stack, Text } from '@chakra-ui/react';
-import { OUTCOMES } from '@steadyhand/shared';
+import { END_OUTCOME_CHOICES } from '@steadyhand/shared';
 import { useState } from 'react';
 import { AIRWAY_WORDS, OUTCOME_WORDS } from '../../../lib/live/entry-words';
 import { PadButton } from './pad-button';
@@ -155,7 +155,7 @@ export function EventGroup({
               End the code: outcome?
             </Text>
             <SimpleGrid columns={2} gap="2">
-              {OUTCOMES.map((o) => (
+              {END_OUTCOME_CHOICES.map((o) => (
                 <PadButton
                   key={o}
                   label={OUTCOME_WORDS[o]}

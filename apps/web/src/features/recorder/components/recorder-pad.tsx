@@ -1,23 +1,25 @@
 import { Alert, Box, Button, Flex, Grid, Stack, Text } from '@chakra-ui/react';
 import {
-  computeDosing,
-  deriveLiveStateFromLive,
-  effectiveEntries,
+  flaggedDoseText,
   formatElapsedMs,
-  LIVE_REMINDER_CAUTION,
-  nextShockJoules,
+  REMINDER_CAUTION as CORE_REMINDER_CAUTION,
+  stateAt,
+  TAPS_NOT_SENSOR,
   type Code,
   type DosingSheet,
   type EffectiveEntry,
   type NewEntry,
   type ProtocolSettings,
 } from '@steadyhand/shared';
+import dayjs from 'dayjs';
 import { useCallback, useMemo, useState } from 'react';
 import { Link as RouterLink } from 'react-router';
 import { paths } from '../../../config/paths';
 import type { EntryFields } from '../../../lib/live/entry-build';
 import type { LiveCode } from '../../../lib/live/use-live-code';
 import { describeEntry, OUTCOME_WORDS } from '../../../lib/live/entry-words';
+import { lastMoment, useCodeTimeline } from '../../../lib/live/use-code-timeline';
+import { ArrestTime } from './arrest-time';
 import { CodeDetails } from './code-details';
 import { CprGroup } from './cpr-group';
 import { DrugGroup, type DrugTapPlan } from './drug-group';
@@ -30,7 +32,7 @@ import { ShockGroup } from './shock-group';
 import { StatusStrip } from './status-strip';
 import { UNDO_WINDOW_MS, UndoBar, type LastTap } from './undo-bar';
 
-export const REMINDER_CAUTION = LIVE_REMINDER_CAUTION;
+export const REMINDER_CAUTION = CORE_REMINDER_CAUTION;
 export const UNDO_REASON = 'undone on the pad within 5 s';
 export const AMEND_REASON = 'dose corrected after tap';
 const DOSE_EDIT_WINDOW_MS = 30_000;
@@ -44,12 +46,21 @@ type Editor =
   | { kind: 'etco2' }
   | { kind: 'note' };
 
-function safeDosing(code: Code, protocol: ProtocolSettings): DosingSheet | null {
-  try {
-    return computeDosing({ category: code.category, weightKg: code.weightKg }, protocol);
-  } catch {
-    return null;
-  }
+/** The dosing sheet's own cautions, folded away but one tap from every dose. */
+function DosingCautions({ sheet }: { sheet: DosingSheet }) {
+  const perDrug = sheet.drugs.flatMap((d) => [...d.cautions, ...d.notes].map((text) => `${d.label}: ${text}`));
+  return (
+    <Box as="details" mt="1" data-testid="dosing-cautions">
+      <Box as="summary" cursor="pointer" fontWeight="bold" textStyle="sm" minH="12" display="flex" alignItems="center">
+        Dosing cautions and notes ({sheet.cautions.length + perDrug.length})
+      </Box>
+      <Stack as="ul" gap="1" pl="4" textStyle="xs">
+        {[...sheet.cautions, ...perDrug].map((c) => (
+          <li key={c}>{c}</li>
+        ))}
+      </Stack>
+    </Box>
+  );
 }
 
 interface RecorderPadProps {
@@ -72,20 +83,12 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
   const [synchronized, setSynchronized] = useState(false);
   const { record, entries, pendingIds, clock } = live;
 
-  // Redone only when the log changes; the strip's per-second tick reuses it.
-  const effective = useMemo(() => effectiveEntries(entries), [entries]);
-  const counting = useMemo(() => effective.filter((e) => e.voided === null), [effective]);
-  const sheet = useMemo(() => safeDosing(code, protocol), [code, protocol]);
-  const snapshot = useMemo(
-    () =>
-      deriveLiveStateFromLive({
-        code,
-        settings: protocol,
-        nowMs: Date.parse(code.arrestAt),
-        liveEntries: counting,
-      }),
-    [code, protocol, counting],
-  );
+  // The log folded once per change; the strip reads its moment from it every second.
+  const timeline = useCodeTimeline(code, protocol, entries);
+  const effective = timeline.all;
+  const sheet = timeline.sheet;
+  // Counts and the next dose or energy, with every entry so far.
+  const snapshot = useMemo(() => stateAt(timeline, lastMoment(timeline)), [timeline]);
   const arrestAtMs = Date.parse(code.arrestAt);
   const pediatric = code.category === 'pediatric';
 
@@ -95,6 +98,8 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
       record(fields)
         .then((entry) => {
           setTapError(null);
+          // The synchronised switch goes back to off after every shock, so the next one is not synchronised by mistake.
+          if (entry.kind === 'shock') setSynchronized(false);
           if (entry.kind === 'void' || entry.kind === 'amend') return;
           const now = Date.now();
           setLastTap({
@@ -133,15 +138,7 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
     });
   };
 
-  const givenCount = (key: string) =>
-    snapshot.drugTotals.find((d) => d.key === key)?.doseCount ?? 0;
-  const nextPedStep = sheet
-    ? nextShockJoules(
-        sheet,
-        snapshot.shocks.count,
-        synchronized ? 'cardioversion' : 'defibrillation',
-      )
-    : null;
+  const nextPedStep = synchronized ? snapshot.nextEnergy.cardioversion : snapshot.nextEnergy.defibrillation;
   const noWrite = !canWrite;
   const failedById = new Map(entries.map((e) => [e.id, e]));
 
@@ -150,9 +147,10 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
       <Flex align="baseline" justify="space-between" wrap="wrap" gap="2">
         <Text as="h1" textStyle="xl" fontWeight="bold" data-testid="record-heading">
           {pediatric ? 'Pediatric' : 'Adult'} code · {code.location ?? 'location not set'}
-          {code.weightKg !== null ? ` · ${code.weightKg} kg` : ''}
+          {code.weightKg !== null ? ` · ${code.weightKg} kg${code.weightSource === 'estimated-age' ? ' (estimate)' : ''}` : ''}
         </Text>
-        <Flex align="baseline" gap="3">
+        <Flex align="baseline" gap="3" wrap="wrap">
+          <ArrestTime code={code} canWrite={canWrite} onSaved={live.setCode} />
           <Text textStyle="sm" color="ink.700">
             Clock offset {Math.round(clock.offsetMs)} ms
             {clock.uncertaintyMs !== null
@@ -165,13 +163,17 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
         </Flex>
       </Flex>
 
-      <StatusStrip
-        code={code}
-        protocol={protocol}
-        live={counting}
-        sync={live.sync}
-        correctedNow={clock.correctedNow}
-      />
+      <StatusStrip timeline={timeline} sync={live.sync} correctedNow={clock.correctedNow} />
+
+      {snapshot.categoryChange ? (
+        <Box bg="signal.100" borderWidth="2px" borderColor="signal.600" borderRadius="l3" px="3" py="2" data-testid="category-changed">
+          <Text textStyle="md" fontWeight="bold">
+            Switched to {snapshot.categoryChange.to === 'pediatric' ? 'a pediatric' : 'an adult'} code at{' '}
+            {dayjs(snapshot.categoryChange.atMs).format('HH:mm:ss')}: doses and energies recalculated
+            {code.weightKg !== null ? ` for ${code.weightKg} kg` : ''}. Doses given before are checked against the new sheet below.
+          </Text>
+        </Box>
+      ) : null}
 
       {live.sync.alarm ? (
         <Alert.Root
@@ -309,7 +311,8 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
             <DrugGroup
               protocol={protocol}
               sheet={sheet}
-              givenCount={givenCount}
+              nextDoses={snapshot.nextDoses}
+              totals={snapshot.drugTotals}
               pediatric={pediatric}
               disabled={noWrite}
               onDrug={onDrug}
@@ -381,13 +384,27 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
             count={noWrite ? 20 : 8}
             onVoid={noWrite ? undefined : voidEntry}
           />
+          {snapshot.flaggedDoses.length > 0 ? (
+            <Box bg="signal.50" borderWidth="2px" borderColor="signal.500" borderRadius="l2" px="3" py="2" data-testid="flagged-doses">
+              <Text textStyle="sm" fontWeight="black">
+                DOSES TO CHECK
+              </Text>
+              {snapshot.flaggedDoses.map((d) => (
+                <Text key={d.id} textStyle="sm" fontWeight="bold">
+                  {flaggedDoseText(d)}
+                </Text>
+              ))}
+            </Box>
+          ) : null}
           <Box borderTopWidth="1px" borderColor="ink.200" pt="2" data-testid="reminder-caution">
             <Text textStyle="sm" fontWeight="bold">
               {REMINDER_CAUTION}
             </Text>
             <Text textStyle="xs" color="ink.700">
-              Protocol: {protocol.edition}. Times shown are when each event happened, as tapped.
+              Protocol version {code.protocolVersion ?? 1}: {protocol.edition}. Times shown are when each event happened, as
+              tapped. {TAPS_NOT_SENSOR}
             </Text>
+            {sheet ? <DosingCautions sheet={sheet} /> : null}
           </Box>
         </Stack>
       </Grid>

@@ -1,16 +1,16 @@
-import { Box, Flex, Grid, Text } from '@chakra-ui/react';
+import { Box, Flex, Grid, Stack, Text } from '@chakra-ui/react';
 import {
-  deriveLiveStateFromLive,
-  formatElapsedMs,
-  type Code,
-  type EffectiveEntry,
-  type LiveState,
-  type ProtocolSettings,
+  REMINDER_WORDS,
+  stateAt,
+  stateReadings,
+  type Reading,
+  type ReadingTone,
+  type Reminder,
+  type Timeline,
 } from '@steadyhand/shared';
 import type { ReactNode } from 'react';
 import type { LiveSyncState } from '../../../lib/live/use-live-code';
 import { useSecondTick } from '../../../lib/live/use-second-tick';
-import { PAUSE_WORDS, RHYTHM_WORDS } from '../../../lib/live/entry-words';
 import { Shape, type ShapeKind } from '../../../components/ui/shapes';
 
 type Tone = 'calm' | 'due' | 'overdue' | 'ok';
@@ -82,78 +82,6 @@ function Tile({
   );
 }
 
-function cycleTile(s: LiveState): { value: string; note: string; tone: Tone; shape?: ShapeKind } {
-  if (s.status === 'ended') return { value: 'Ended', note: 'Clocks stopped', tone: 'calm' };
-  if (s.status === 'rosc')
-    return {
-      value: `ROSC ${formatElapsedMs(s.roscElapsedMs ?? 0)}`,
-      note: 'Compressions stopped',
-      tone: 'ok',
-    };
-  const c = s.compressions;
-  if (c.cycle) {
-    const left = c.cycle.checkCountdownMs;
-    if (left < 0)
-      return {
-        value: `+${formatElapsedMs(left)}`,
-        note: `Rhythm check OVERDUE · cycle ${c.cycle.number}`,
-        tone: 'overdue',
-        shape: 'octagon',
-      };
-    const shown = formatElapsedMs(Math.ceil(left / 1000) * 1000);
-    if (left <= 15_000)
-      return {
-        value: shown,
-        note: `Rhythm check DUE · cycle ${c.cycle.number}`,
-        tone: 'due',
-        shape: 'triangle',
-      };
-    return { value: shown, note: `to check · cycle ${c.cycle.number}`, tone: 'calm' };
-  }
-  if (c.pause) {
-    const why = c.pause.reason ? ` for ${PAUSE_WORDS[c.pause.reason]}` : '';
-    return c.pause.tooLong
-      ? {
-          value: `Paused ${formatElapsedMs(c.pause.lengthMs)}`,
-          note: `TOO LONG${why}: resume compressions`,
-          tone: 'overdue',
-          shape: 'octagon',
-        }
-      : {
-          value: `Paused ${formatElapsedMs(c.pause.lengthMs)}`,
-          note: `Compressions paused${why}`,
-          tone: 'due',
-          shape: 'triangle',
-        };
-  }
-  return { value: 'Not started', note: 'No compressions yet', tone: 'calm', shape: 'ring' };
-}
-
-function epiTile(s: LiveState): { value: string; note: string; tone: Tone; shape?: ShapeKind } {
-  const e = s.epinephrine;
-  if (e.sinceLastMs === null)
-    return { value: 'None yet', note: 'No epinephrine given', tone: 'calm', shape: 'ring' };
-  const since = formatElapsedMs(e.sinceLastMs);
-  if (s.status !== 'arrest')
-    return { value: since, note: `since last dose (${e.doseCount} given)`, tone: 'calm' };
-  if (e.state === 'overdue')
-    return {
-      value: since,
-      note: `OVERDUE since last dose (${e.doseCount} given)`,
-      tone: 'overdue',
-      shape: 'octagon',
-    };
-  if (e.state === 'due')
-    return { value: since, note: `DUE now (${e.doseCount} given)`, tone: 'due', shape: 'triangle' };
-  const dueIn = (e.dueFromMs ?? 0) - s.clockMs;
-  return {
-    value: since,
-    note: `since last · due in ${formatElapsedMs(Math.max(0, Math.ceil(dueIn / 1000) * 1000))}`,
-    tone: 'calm',
-    shape: 'ring',
-  };
-}
-
 export function SyncTile({ sync }: { sync: LiveSyncState }) {
   let value: string;
   let note: string;
@@ -194,29 +122,70 @@ export function SyncTile({ sync }: { sync: LiveSyncState }) {
   );
 }
 
+const TONE_OF: Record<ReadingTone, Tone> = { calm: 'calm', ok: 'ok', due: 'due', overdue: 'overdue' };
+
+function ReadingTile({ label, reading, testId }: { label: string; reading: Reading; testId: string }) {
+  return (
+    <Tile
+      label={label}
+      value={reading.value}
+      note={`${reading.word} · ${reading.note}`}
+      tone={TONE_OF[reading.tone]}
+      shape={reading.shape ?? undefined}
+      testId={testId}
+    />
+  );
+}
+
+const SEVERITY_TONE: Record<Reminder['severity'], Tone> = { urgent: 'overdue', attention: 'due', info: 'calm' };
+const SEVERITY_SHAPE: Record<Reminder['severity'], ShapeKind> = { urgent: 'octagon', attention: 'triangle', info: 'ring' };
+
+/** Reminders the tiles do not already carry (drug sequence, capnography, child weight), most urgent first. */
+function ReminderBar({ reminders, warning }: { reminders: readonly Reminder[]; warning: string | null }) {
+  const shown = reminders.filter((r) => r.kind !== 'rhythm-check' && r.kind !== 'pause' && r.kind !== 'epinephrine');
+  if (shown.length === 0 && !warning) return null;
+  return (
+    <Stack gap="1" mt="2" data-testid="pad-reminders" aria-live="polite">
+      {warning ? <ReminderLine tone="due" shape="triangle" word="CHECK" text={warning} testId="pad-category-warning" /> : null}
+      {shown.map((r) => (
+        <ReminderLine key={r.kind} tone={SEVERITY_TONE[r.severity]} shape={SEVERITY_SHAPE[r.severity]} word={REMINDER_WORDS[r.state]} text={r.message} testId={`pad-reminder-${r.kind}`} />
+      ))}
+    </Stack>
+  );
+}
+
+function ReminderLine({ tone, shape, word, text, testId }: { tone: Tone; shape: ShapeKind; word: string; text: string; testId: string }) {
+  const c = TONE_COLORS[tone];
+  return (
+    <Flex bg={c.bg} color={c.fg} borderRadius="l2" px="2" py="1" gap="2" align="center" data-testid={testId}>
+      <Shape kind={shape} size="1.3em" />
+      <Text textStyle="sm" fontWeight="black" flexShrink={0}>
+        {word}
+      </Text>
+      <Text textStyle="sm" fontWeight="bold" lineHeight="1.2">
+        {text}
+      </Text>
+    </Flex>
+  );
+}
+
 /**
  * The strip that never scrolls away: arrest clock, cycle countdown, epinephrine clock, rhythm,
- * shocks, and whether every tap has reached the server. Re-rendered once a second from the
- * corrected clock; the log's expensive part (liveEntries) is computed once per change above.
+ * shocks, whether every tap has reached the server, and the reminders. Its words are the wall's
+ * words (stateReadings), read once a second from the one fold of the log.
  */
 export function StatusStrip({
-  code,
-  protocol,
-  live,
+  timeline,
   sync,
   correctedNow,
 }: {
-  code: Code;
-  protocol: ProtocolSettings;
-  live: readonly EffectiveEntry[];
+  timeline: Timeline;
   sync: LiveSyncState;
   correctedNow: () => number;
 }) {
   const nowMs = useSecondTick(correctedNow);
-  const s = deriveLiveStateFromLive({ code, settings: protocol, nowMs, liveEntries: live });
-  const cycle = cycleTile(s);
-  const epi = epiTile(s);
-  const rhythm = s.rhythm.current;
+  const s = stateAt(timeline, nowMs, { recentCount: 0 });
+  const r = stateReadings(s);
   return (
     <Box
       position="sticky"
@@ -236,52 +205,14 @@ export function StatusStrip({
         }}
         gap="2"
       >
-        <Tile
-          label="Since arrest"
-          value={formatElapsedMs(s.arrestElapsedMs)}
-          note={
-            s.status === 'ended'
-              ? 'Code ended'
-              : s.status === 'rosc'
-                ? 'ROSC now'
-                : 'Arrest running'
-          }
-          testId="clock-arrest"
-        />
-        <Tile
-          label="Compression cycle"
-          value={cycle.value}
-          note={cycle.note}
-          tone={cycle.tone}
-          shape={cycle.shape}
-          testId="clock-cycle"
-        />
-        <Tile
-          label="Epinephrine"
-          value={epi.value}
-          note={epi.note}
-          tone={epi.tone}
-          shape={epi.shape}
-          testId="clock-epi"
-        />
-        <Tile
-          label="Rhythm"
-          value={rhythm ? RHYTHM_WORDS[rhythm.rhythm] : '—'}
-          note={rhythm ? (rhythm.pulse ? 'Pulse present' : 'No pulse') : 'Not checked yet'}
-          testId="state-rhythm"
-        />
-        <Tile
-          label="Shocks"
-          value={String(s.shocks.count)}
-          note={
-            s.shocks.lastJoules !== null
-              ? `Last ${s.shocks.lastJoules} J${s.shocks.lastSynchronized ? ' sync' : ''}`
-              : 'None yet'
-          }
-          testId="state-shocks"
-        />
+        <ReadingTile label="Since arrest" reading={r.arrest} testId="clock-arrest" />
+        <ReadingTile label="Compression cycle" reading={r.compressions} testId="clock-cycle" />
+        <ReadingTile label="Epinephrine" reading={r.epinephrine} testId="clock-epi" />
+        <ReadingTile label="Rhythm" reading={r.rhythm} testId="state-rhythm" />
+        <ReadingTile label="Shocks" reading={r.shocks} testId="state-shocks" />
         <SyncTile sync={sync} />
       </Grid>
+      <ReminderBar reminders={s.reminders} warning={s.categoryWarning} />
     </Box>
   );
 }

@@ -4,7 +4,7 @@ import {
   DOSE_UNITS,
   doseUnitLabel,
   DRUG_ROUTES,
-  OUTCOMES,
+  END_OUTCOME_CHOICES,
   RHYTHMS,
   type ClinicalEntry,
   type EffectiveEntry,
@@ -82,7 +82,7 @@ export const FIELDS: Partial<Record<ClinicalEntry['kind'], FieldSpec[]>> = {
       name: 'outcome',
       label: 'Outcome',
       type: 'select',
-      options: options(OUTCOMES, OUTCOME_WORDS),
+      options: options(END_OUTCOME_CHOICES, OUTCOME_WORDS),
     },
   ],
 };

@@ -12,7 +12,7 @@ import {
   Textarea,
 } from '@chakra-ui/react';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { OUTCOMES, type RecordCode, type ReviewDetailsRequest } from '@steadyhand/shared';
+import { END_OUTCOME_CHOICES, OUTCOMES, type RecordCode, type ReviewDetailsRequest } from '@steadyhand/shared';
 import { useState } from 'react';
 import { useFieldArray, useForm } from 'react-hook-form';
 import { z } from 'zod';
@@ -50,7 +50,8 @@ function toForm(code: RecordCode): FormValues {
     birthDate: code.patient?.birthDate ?? '',
     sex: code.patient?.sex ?? '',
     location: code.location ?? '',
-    outcome: code.outcome ?? 'other',
+    // The older word for ending in ROSC shows as the current one: it means the same.
+    outcome: code.outcome === 'sustained-rosc' ? 'rosc' : (code.outcome ?? 'other'),
     team: code.team,
     debriefNotes: code.debriefNotes ?? '',
   };
@@ -164,7 +165,7 @@ export function ReviewDetailsForm({ code, editable }: ReviewDetailsFormProps) {
                 <Field.Label>Outcome</Field.Label>
                 <NativeSelect.Root>
                   <NativeSelect.Field {...form.register('outcome')} data-testid="details-outcome">
-                    {OUTCOMES.map((o) => (
+                    {END_OUTCOME_CHOICES.map((o) => (
                       <option key={o} value={o}>
                         {OUTCOME_WORDS[o]}
                       </option>

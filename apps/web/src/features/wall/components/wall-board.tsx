@@ -1,19 +1,20 @@
 import { Box, Flex, Grid, Stack, Text } from '@chakra-ui/react';
 import {
-  deriveLiveStateFromLive,
+  compressionReading,
+  epinephrineReading,
   formatElapsedMs,
-  LIVE_REMINDER_CAUTION,
-  liveEntries,
+  REMINDER_CAUTION,
+  rhythmReading,
+  stateAt,
+  type Reading,
 } from '@steadyhand/shared';
-import { useMemo } from 'react';
 import { Link as RouterLink } from 'react-router';
 import { Shape } from '../../../components/ui/shapes';
 import { paths } from '../../../config/paths';
-import { RHYTHM_WORDS } from '../../../lib/live/entry-words';
+import { useCodeTimeline } from '../../../lib/live/use-code-timeline';
 import { useLiveCode } from '../../../lib/live/use-live-code';
 import { useSecondTick } from '../../../lib/live/use-second-tick';
 import { useBoardCodes, type BoardCode } from '../api/get-live-codes';
-import { compressionReading, epinephrineReading, type WallReading } from '../lib/wall-states';
 import { WALL_TONES } from './wall-parts';
 import { linkReading } from './wall-screen';
 
@@ -56,13 +57,13 @@ export function WallBoard() {
         </Flex>
       ) : null}
       <Text fontSize="1.2rem" fontWeight="bold">
-        {LIVE_REMINDER_CAUTION}
+        {REMINDER_CAUTION}
       </Text>
     </Stack>
   );
 }
 
-function StateLine({ label, reading }: { label: string; reading: WallReading }) {
+function StateLine({ label, reading }: { label: string; reading: Reading }) {
   const c = WALL_TONES[reading.tone];
   return (
     <Flex align="center" gap="3" bg={c.bg} color={c.fg} borderRadius="l2" px="3" py="1" minW="0">
@@ -83,12 +84,9 @@ function StateLine({ label, reading }: { label: string; reading: WallReading }) 
 function BoardCard({ item }: { item: BoardCode }) {
   const live = useLiveCode(item.id);
   const nowMs = useSecondTick(live.clock.correctedNow);
-  const counting = useMemo(() => liveEntries(live.entries), [live.entries]);
   const code = live.code;
-  const s =
-    code && live.protocol
-      ? deriveLiveStateFromLive({ code, settings: live.protocol, nowMs, liveEntries: counting, recentCount: 0 })
-      : null;
+  const timeline = useCodeTimeline(code, live.protocol, live.entries);
+  const s = timeline ? stateAt(timeline, nowMs, { recentCount: 0 }) : null;
   const link = linkReading(live.sync, nowMs, live.clock.offsetMs);
   const where = item.location ?? 'Location not yet recorded';
   return (
@@ -126,8 +124,8 @@ function BoardCard({ item }: { item: BoardCode }) {
             <StateLine label="Compressions" reading={compressionReading(s)} />
             <StateLine label="Epinephrine" reading={epinephrineReading(s)} />
             <Text fontSize="1.6rem" fontWeight="bold">
-              Rhythm {s.rhythm.current ? RHYTHM_WORDS[s.rhythm.current.rhythm] : 'not checked yet'} · Shocks{' '}
-              {s.shocks.count}
+              Rhythm {s.rhythm.current ? rhythmReading(s).value : 'not checked yet'} · Shocks {s.shocks.count}
+              {s.reminders.length > 0 ? ` · ${s.reminders.length} reminder${s.reminders.length === 1 ? '' : 's'}` : ''}
             </Text>
           </Stack>
         ) : (

@@ -1,7 +1,7 @@
 import { Box, Flex, Stack, Text } from '@chakra-ui/react';
 import type { ReactNode } from 'react';
 import { Shape, type ShapeKind } from '../../../components/ui/shapes';
-import type { WallReading, WallTone } from '../lib/wall-states';
+import type { Reading as WallReading, ReadingTone as WallTone } from '@steadyhand/shared';
 
 /** High contrast on a dark room-facing screen; the word and shape always repeat the colour. */
 export const WALL_TONES: Record<WallTone, { bg: string; fg: string; border: string }> = {
@@ -24,7 +24,7 @@ export function ReadingBlock({
   label,
   reading,
   testId,
-  valueSize = '8.5rem',
+  valueSize = '8rem',
 }: {
   label: string;
   reading: WallReading;
