@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { textSchema } from './text.js';
 
 /**
  * The entry log. A code is an append-only list of these; everything else is computed from it.
@@ -39,22 +40,18 @@ export type Outcome = (typeof OUTCOMES)[number];
 
 const isoTime = z.iso.datetime({ offset: true, message: 'must be an ISO 8601 date-time, e.g. 2026-03-04T07:42:10.000Z' });
 
-/** Text must be well-formed Unicode: a lone surrogate cannot be canonicalised, hashed or printed. */
-const LONE_SURROGATE = /\p{Cs}/u;
-const wellFormed = (s: string) => !LONE_SURROGATE.test(s);
-
 /** Fields every entry carries, as sent by a device. */
 const entryBaseShape = {
   id: z.uuid({ message: 'id must be a UUID made on the device' }),
   at: isoTime,
-  deviceId: z.string().trim().min(1).max(64).refine(wellFormed, 'must be well-formed text').optional(),
+  deviceId: textSchema().trim().min(1).max(64).optional(),
   seq: z.number().int().nonnegative().optional(),
   offsetMs: z.number().finite().optional(),
   /** Half the round trip of the clock sample used: how far off `at` may be. */
   offsetUncertaintyMs: z.number().finite().nonnegative().optional(),
 };
 
-const shortText = (max: number) => z.string().trim().min(1).max(max).refine(wellFormed, 'must be well-formed text (a lone surrogate was found)');
+const shortText = (max: number) => textSchema().trim().min(1).max(max);
 
 export const cprEntrySchema = z.object({
   ...entryBaseShape,
@@ -129,7 +126,7 @@ export const amendEntrySchema = z.object({
   kind: z.literal('amend'),
   target: z.uuid(),
   /** Kind-specific fields of the target (and/or `at`), validated against the target's kind when applied. */
-  changes: z.record(z.string(), z.unknown()).refine((c) => Object.keys(c).length > 0, 'changes is empty'),
+  changes: z.record(textSchema().max(64), z.unknown()).refine((c) => Object.keys(c).length > 0, 'changes is empty'),
   reason: shortText(500),
 });
 
@@ -173,12 +170,12 @@ export const entrySchemaByKind = {
 
 /** Fields the server adds when it stores an entry. */
 export const storedEntryFieldsSchema = z.object({
-  codeId: z.string(),
-  userId: z.string(),
+  codeId: textSchema(),
+  userId: textSchema(),
   /** Server-assigned, strictly increasing across the whole database: the sync cursor. */
   cursor: z.number().int().positive(),
-  receivedAt: z.string(),
-  recordedAt: z.string(),
+  receivedAt: textSchema(),
+  recordedAt: textSchema(),
   /** True when added after the record's first signature. */
   addendum: z.boolean(),
 });

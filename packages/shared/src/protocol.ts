@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { textSchema } from './text.js';
 import { DOSE_UNITS, DRUG_ROUTES } from './entries.js';
 
 /**
@@ -18,8 +19,8 @@ const perKgRuleSchema = z.object({
 export type PerKgRule = z.infer<typeof perKgRuleSchema>;
 
 export const drugDefinitionSchema = z.object({
-  key: z.string().min(1).max(40),
-  label: z.string().min(1).max(60),
+  key: textSchema().min(1).max(40),
+  label: textSchema().min(1).max(60),
   unit: z.enum(DOSE_UNITS),
   route: z.enum(DRUG_ROUTES),
   /** Adult doses in order: first dose, second dose... The last repeats. */
@@ -29,13 +30,13 @@ export const drugDefinitionSchema = z.object({
   /** Concentration as supplied, to show the volume: amount of `unit` per mL. */
   concentrationPerMl: z.number().positive().optional(),
   /** Where the default comes from. */
-  source: z.string().max(300),
+  source: textSchema().max(300),
 });
 export type DrugDefinition = z.infer<typeof drugDefinitionSchema>;
 
 export const protocolSettingsSchema = z.object({
   /** Which guideline edition the defaults follow; shown on every reminder surface. */
-  edition: z.string().min(1).max(120),
+  edition: textSchema().min(1).max(120),
   /** Length of one compression cycle between rhythm checks. */
   cprCycleSeconds: z.number().int().min(30).max(600),
   /** Epinephrine is due from `min` after the last dose and overdue after `max`. */

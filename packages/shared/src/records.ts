@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { textSchema } from './text.js';
 import { patientSchema, type Code } from './codes.js';
 import { OUTCOMES, type StoredEntry } from './entries.js';
 
@@ -9,8 +10,8 @@ import { OUTCOMES, type StoredEntry } from './entries.js';
 
 export const teamMemberSchema = z
   .object({
-    name: z.string().trim().min(1, 'name is required').max(120),
-    role: z.string().trim().min(1, 'role is required').max(60),
+    name: textSchema().trim().min(1, 'name is required').max(120),
+    role: textSchema().trim().min(1, 'role is required').max(60),
   })
   .strict();
 export type TeamMember = z.infer<typeof teamMemberSchema>;
@@ -19,10 +20,10 @@ export type TeamMember = z.infer<typeof teamMemberSchema>;
 export const reviewDetailsSchema = z
   .object({
     team: z.array(teamMemberSchema).max(40).optional(),
-    debriefNotes: z.string().trim().max(5000).nullable().optional(),
+    debriefNotes: textSchema().trim().max(5000).nullable().optional(),
     outcome: z.enum(OUTCOMES).optional(),
     patient: patientSchema.nullable().optional(),
-    location: z.string().trim().max(120).nullable().optional(),
+    location: textSchema().trim().max(120).nullable().optional(),
   })
   .strict()
   .refine((v) => Object.keys(v).length > 0, 'Send at least one field to change');
@@ -46,7 +47,7 @@ export const SIGNATURE_MEANING_ROLE = {
 export const signRecordSchema = z
   .object({
     meaning: z.enum(SIGNATURE_MEANINGS),
-    password: z.string().min(1, 'password is required').max(1024),
+    password: textSchema().min(1, 'password is required').max(1024),
   })
   .strict();
 export type SignRecordRequest = z.infer<typeof signRecordSchema>;
@@ -139,12 +140,11 @@ export interface RecordListItem {
 /** Verify by digest (and, optionally, the record id printed on the copy). */
 export const verifyRecordSchema = z
   .object({
-    digest: z
-      .string()
+    digest: textSchema()
       .trim()
       .toLowerCase()
       .regex(/^[0-9a-f]{64}$/, 'digest must be 64 hexadecimal characters (SHA-256)'),
-    recordId: z.string().trim().min(1).max(64).optional(),
+    recordId: textSchema().trim().min(1).max(64).optional(),
   })
   .strict();
 export type VerifyRecordRequest = z.infer<typeof verifyRecordSchema>;

@@ -5,6 +5,7 @@ import type { Statement } from 'better-sqlite3';
 import { DATABASE, DB } from '../db/database.module.js';
 import type { DatabaseHandle, Db } from '../db/database.js';
 import { codes, entries } from '../db/schema/index.js';
+import { NotCanonicalisable } from '../common/canonical-json.js';
 import { CHAIN_START, entryLinkHash, type EntryLink } from './entry-chain.js';
 
 type CodeRow = typeof codes.$inferSelect;
@@ -197,10 +198,11 @@ export class CodesRepository {
     let hash: string;
     try {
       hash = entryLinkHash(prevHash, stored);
-    } catch {
-      // The shared schema refuses lone surrogates in entry text; this is the last guard for any
-      // other field. A 400 rolls the entry back; a 500 would have the device resend it forever.
-      throw new BadRequestException('The entry holds text that is not well-formed Unicode (a lone surrogate); retype it');
+    } catch (err) {
+      // The shared schemas and the edge's JSON limits refuse what cannot be canonicalised; this is
+      // the last guard. A 400 rolls the entry back; a 500 would have the device resend it forever.
+      if (err instanceof NotCanonicalisable) throw new BadRequestException(`The entry cannot be stored: ${err.message}`);
+      throw err;
     }
     this.hot.insertLink.run(stored.id, stored.codeId, (last?.position ?? 0) + 1, prevHash, hash);
   }

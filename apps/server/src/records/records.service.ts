@@ -38,6 +38,7 @@ import { DB } from '../db/database.module.js';
 import type { Db } from '../db/database.js';
 import { inArray } from 'drizzle-orm';
 import { users } from '../db/schema/index.js';
+import { NotCanonicalisable } from '../common/canonical-json.js';
 import {
   formatPdfStamp,
   pdfStampText,
@@ -125,7 +126,28 @@ export class RecordsService {
     return meanings.size === 0 ? 'draft' : meanings.has('recorded-by') && meanings.has('reviewed-confirmed') ? 'signed' : 'partly-signed';
   }
 
+  /**
+   * Runs work that canonicalises the record. A record holding something RFC 8785 cannot serialise
+   * (stored before the schemas refused it) answers 409 saying which field, never a 500.
+   */
+  private canonical<T>(work: () => T): T {
+    try {
+      return work();
+    } catch (err) {
+      if (!(err instanceof NotCanonicalisable)) throw err;
+      throw new ConflictException({
+        statusCode: 409,
+        error: 'record-not-canonical',
+        message: `This record cannot be canonicalised (RFC 8785), so it cannot be shown, printed, signed or verified: record.${err.message}. Correct that detail of the code; stored entries stay as they were written.`,
+      });
+    }
+  }
+
   view(id: string): RecordView {
+    return this.canonical(() => this.buildView(id));
+  }
+
+  private buildView(id: string): RecordView {
     const record = this.canonicalRecord(id);
     const rows = this.signatures.ofCode(id);
     return {
@@ -228,7 +250,7 @@ export class RecordsService {
       throw new ConflictException(`This record already has a "${SIGNATURE_MEANING_TEXT[body.meaning]}" signature`);
     }
     const record = this.canonicalRecord(id);
-    const digest = recordDigest(record);
+    const digest = this.canonical(() => recordDigest(record));
     // Not earlier than any stored entry, so the record "as of" this signature holds all it signed.
     const latest = Math.max(Date.now(), ...record.entries.map((e) => Date.parse(e.recordedAt)), ...record.attachments.map((a) => Date.parse(a.uploadedAt)));
     const signedAt = new Date(latest).toISOString();
@@ -361,7 +383,13 @@ export class RecordsService {
 
   private verifyAgainst(recordId: string, digest: string): VerifyRecordResult {
     if (!this.codes.findCode(recordId)) return { valid: false, reason: 'No record with this id on this server.' };
-    const view = this.view(recordId);
+    let view: RecordView;
+    try {
+      view = this.view(recordId);
+    } catch (err) {
+      if (err instanceof ConflictException) return { valid: false, reason: String((err.getResponse() as { message: string }).message) };
+      throw err;
+    }
     const summary = {
       id: recordId,
       location: view.record.code.location,

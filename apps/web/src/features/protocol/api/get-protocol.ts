@@ -1,4 +1,4 @@
-import { protocolSettingsSchema, type ProtocolDocument } from '@steadyhand/shared';
+import { protocolSettingsSchema, type ProtocolDocument, textSchema } from '@steadyhand/shared';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
@@ -6,8 +6,8 @@ import { api } from '../../../lib/api-client';
 // Checked on arrival: the admin form is filled from this, so a malformed answer must not reach it.
 export const protocolDocumentSchema = z.object({
   protocol: protocolSettingsSchema,
-  updatedAt: z.string().nullable(),
-  updatedBy: z.string().nullable(),
+  updatedAt: textSchema().nullable(),
+  updatedBy: textSchema().nullable(),
 });
 
 export const protocolQueryKey = ['protocol'] as const;
