@@ -1,7 +1,9 @@
-import type { RecordView, StoredEntry } from '@steadyhand/shared';
+import type { NewEntry, RecordView, StoredEntry } from '@steadyhand/shared';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { CodesRepository } from '../src/codes/codes.repository.js';
 import { makeEntry } from './support/entries.js';
-import { recordPdf } from './support/pdf.js';
+import { connected, connectLive, cookieHeader, type LiveClient } from './support/live-client.js';
+import { pdfText, recordPdf } from './support/pdf.js';
 import { addUser, signIn, startTestApp, TEST_PASSWORD, type SignedInAgent, type TestApp } from './support/test-app.js';
 
 const LONE = '\ud800';
@@ -9,6 +11,7 @@ const LONE = '\ud800';
 describe('hostile input', () => {
   let app: TestApp;
   let recorder: SignedInAgent;
+  let leader: SignedInAgent;
   let admin: SignedInAgent;
   let otherId: string;
 
@@ -19,6 +22,7 @@ describe('hostile input', () => {
     await addUser(app, 'kofi.asante', ['leader']);
     await addUser(app, 'site.admin', ['admin']);
     recorder = await signIn(app, 'maren.holt');
+    leader = await signIn(app, 'kofi.asante');
     admin = await signIn(app, 'site.admin');
   }, 90_000);
   afterAll(() => app.close());
@@ -26,6 +30,7 @@ describe('hostile input', () => {
   const post = (who: SignedInAgent, url: string, body: unknown) => who.agent.post(url).set('x-csrf-token', who.csrf).send(body as object);
   const patch = (who: SignedInAgent, url: string, body: unknown) => who.agent.patch(url).set('x-csrf-token', who.csrf).send(body as object);
   const recordOf = async (id: string) => (await recorder.agent.get(`/api/codes/${id}/record`).expect(200)).body as RecordView;
+  const entryCount = (id: string) => app.database.sqlite.prepare('SELECT count(*) FROM entries WHERE code_id = ?').pluck().get(id) as number;
 
   /** An ended code with a shock at 200 J, recorded by maren.holt. Returns the code and the shock's id. */
   async function endedCode(): Promise<{ id: string; shockId: string }> {
@@ -36,6 +41,69 @@ describe('hostile input', () => {
     await post(recorder, `/api/codes/${id}/entries`, makeEntry({ kind: 'end', outcome: 'died', deviceId: 'tablet-1', seq: 2 })).expect(201);
     return { id, shockId: shock.id };
   }
+
+  async function signedCode(): Promise<{ id: string; shockId: string }> {
+    const code = await endedCode();
+    await post(recorder, `/api/codes/${code.id}/signatures`, { meaning: 'recorded-by', password: TEST_PASSWORD }).expect(201);
+    await post(leader, `/api/codes/${code.id}/signatures`, { meaning: 'reviewed-confirmed', password: TEST_PASSWORD }).expect(201);
+    return code;
+  }
+
+  const amend = (target: string, changes: Record<string, unknown>): NewEntry =>
+    makeEntry({ kind: 'amend', target, changes, reason: 'Strip reviewed', deviceId: 'review' });
+
+  describe('an amendment cannot rewrite what the server set', () => {
+    it('refuses server fields with 400 on the entries route, the addenda route and the live socket, storing nothing', async () => {
+      const draft = await endedCode();
+      const before = entryCount(draft.id);
+      for (const changes of [{ userId: otherId }, { userName: 'Someone Else' }, { addendum: true }, { recordedAt: '2020-01-01T00:00:00.000Z' }, { receivedAt: '2020-01-01T00:00:00.000Z' }, { cursor: 1 }, { codeId: 'x' }, { deviceId: 'forged' }]) {
+        const res = await post(recorder, `/api/codes/${draft.id}/entries`, amend(draft.shockId, changes)).expect(400);
+        const field = Object.keys(changes)[0]!;
+        expect(res.body.message).toMatch(new RegExp(`changes\\.${field}: ${field} is set by the (server|device)`));
+      }
+      expect(entryCount(draft.id)).toBe(before);
+
+      const signed = await signedCode();
+      const forged = await post(recorder, `/api/codes/${signed.id}/addenda`, amend(signed.shockId, { userId: otherId, addendum: false, recordedAt: '2020-01-01T00:00:00.000Z' })).expect(400);
+      expect(forged.body.message).toMatch(/userId is set by the server/);
+
+      const socket: LiveClient = connectLive(app.baseUrl, { cookie: cookieHeader(recorder, app.baseUrl), origin: app.baseUrl });
+      try {
+        await connected(socket);
+        const ack = await socket.emitWithAck('entry:add', { codeId: draft.id, entry: amend(draft.shockId, { userId: otherId }) });
+        expect(ack).toMatchObject({ ok: false, status: 400, error: expect.stringMatching(/userId is set by the server/) as unknown });
+      } finally {
+        socket.disconnect();
+      }
+      expect(entryCount(draft.id)).toBe(before);
+    });
+
+    it('refuses a field the target kind does not have, and a change to the value it already has', async () => {
+      const { id, shockId } = await endedCode();
+      const foreign = await post(recorder, `/api/codes/${id}/entries`, amend(shockId, { dose: 1 })).expect(400);
+      expect(foreign.body.message).toMatch(/dose is not a field of a shock entry \(it has at, joules, synchronized\)/);
+      const same = await post(recorder, `/api/codes/${id}/entries`, amend(shockId, { joules: 200 })).expect(400);
+      expect(same.body.message).toMatch(/The amendment changes nothing: joules is already 200/);
+      await post(recorder, `/api/codes/${id}/entries`, amend(shockId, { joules: 150 })).expect(201);
+      // Against the entry as it reads now, after the first correction.
+      await post(recorder, `/api/codes/${id}/entries`, amend(shockId, { joules: 150 })).expect(400);
+      await post(recorder, `/api/codes/${id}/entries`, amend(shockId, { joules: 200 })).expect(201);
+    });
+
+    it('keeps a forged amendment stored by an older build out of the record, so screen and PDF name the real writer', async () => {
+      const { id, shockId } = await endedCode();
+      const forged = amend(shockId, { userId: otherId, joules: 360 });
+      // As an older build stored it, past no check.
+      app.app.get(CodesRepository).appendEntry(forged, { codeId: id, userId: otherId, receivedAt: new Date().toISOString(), addendum: false });
+      const view = await recordOf(id);
+      expect(view.record.entries.some((e) => e.id === forged.id)).toBe(true);
+      const text = pdfText(await recordPdf(recorder, id));
+      const shockLine = text.split('\n').find((l) => /^\S+\s+\+00:00\s+Shock\s/.test(l))!;
+      expect(shockLine).toContain('Test maren.holt');
+      expect(text).not.toContain('360 J');
+      expect(text).not.toMatch(/AMENDED/);
+    });
+  });
 
   describe('text that is not well-formed Unicode', () => {
     it('is refused by every route that takes text into a record, so every record still opens', async () => {

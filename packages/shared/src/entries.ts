@@ -125,8 +125,19 @@ export const amendEntrySchema = z.object({
   ...entryBaseShape,
   kind: z.literal('amend'),
   target: z.uuid(),
-  /** Kind-specific fields of the target (and/or `at`), validated against the target's kind when applied. */
-  changes: z.record(textSchema().max(64), z.unknown()).refine((c) => Object.keys(c).length > 0, 'changes is empty'),
+  /**
+   * Kind-specific fields of the target (and/or `at`), validated against the target's kind when
+   * applied. Fields the server or the device set are refused here, whatever the target.
+   */
+  changes: z
+    .record(textSchema().max(64), z.unknown())
+    .refine((c) => Object.keys(c).length > 0, 'changes is empty')
+    .superRefine((changes, ctx) => {
+      for (const field of Object.keys(changes)) {
+        const why = unamendableReason(field);
+        if (why) ctx.addIssue({ code: 'custom', path: [field], message: why });
+      }
+    }),
   reason: shortText(500),
 });
 
@@ -172,6 +183,11 @@ export const entrySchemaByKind = {
 export const storedEntryFieldsSchema = z.object({
   codeId: textSchema(),
   userId: textSchema(),
+  /**
+   * The writer's display name when the entry was stored, so a later rename never changes who a
+   * record says wrote it (absent on entries stored before names were kept with them).
+   */
+  userName: textSchema().optional(),
   /** Server-assigned, strictly increasing across the whole database: the sync cursor. */
   cursor: z.number().int().positive(),
   receivedAt: textSchema(),
@@ -182,5 +198,31 @@ export const storedEntryFieldsSchema = z.object({
 export type StoredEntryFields = z.infer<typeof storedEntryFieldsSchema>;
 export type StoredEntry = NewEntry & StoredEntryFields;
 
-/** Fields an amendment may not change. */
-export const UNAMENDABLE_FIELDS = ['id', 'kind', 'deviceId', 'seq', 'offsetMs', 'offsetUncertaintyMs', 'target'] as const;
+/** Fields the server sets when it stores an entry: never sent by a device, never amended. */
+export const SERVER_ENTRY_FIELDS = ['codeId', 'userId', 'userName', 'cursor', 'receivedAt', 'recordedAt', 'addendum'] as const;
+/** Fields the device sets at the tap: they say where an entry came from, so they never change. */
+export const DEVICE_ENTRY_FIELDS = ['id', 'kind', 'deviceId', 'seq', 'offsetMs', 'offsetUncertaintyMs'] as const;
+
+/** Fields an amendment may not change, whatever the target. */
+export const UNAMENDABLE_FIELDS = [...DEVICE_ENTRY_FIELDS, 'target', ...SERVER_ENTRY_FIELDS] as const;
+
+/** Why a field cannot be amended, or undefined when it may be (for some kind). */
+export function unamendableReason(field: string): string | undefined {
+  if ((SERVER_ENTRY_FIELDS as readonly string[]).includes(field)) return `${field} is set by the server and cannot be amended`;
+  if ((DEVICE_ENTRY_FIELDS as readonly string[]).includes(field)) return `${field} is set by the device at the tap and cannot be amended`;
+  if (field === 'target') return 'target cannot be amended';
+  return undefined;
+}
+
+export type AmendableKind = Exclude<EntryKind, 'void' | 'amend'>;
+
+/**
+ * The fields an amendment may change on an entry of each kind: its own clinical fields and the
+ * time it happened (`at`). Read from the kind's schema, so a new field is amendable at once.
+ */
+export const AMENDABLE_FIELDS = Object.fromEntries(
+  ENTRY_KINDS.filter((k): k is AmendableKind => k !== 'void' && k !== 'amend').map((kind) => [
+    kind,
+    ['at', ...Object.keys(entrySchemaByKind[kind].shape).filter((f) => !(UNAMENDABLE_FIELDS as readonly string[]).includes(f) && f !== 'at')],
+  ]),
+) as unknown as Record<AmendableKind, readonly string[]>;
