@@ -13,6 +13,7 @@ import { csrfProtection } from './auth/csrf.js';
 import { SessionService } from './auth/session.service.js';
 import type { AppConfig } from './config/config.js';
 import { openDatabase, type DatabaseHandle } from './db/database.js';
+import { JSON_MAX_BYTES, jsonDepthLimit } from './common/json-limits.js';
 import { requestLogger } from './common/request-logger.js';
 
 const NEST_LEVELS: Record<AppConfig['logLevel'], LogLevel[] | false> = {
@@ -64,6 +65,10 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
       strictTransportSecurity: config.secureCookies,
     }),
   );
+
+  // The JSON parser first (Nest would add its own at init, after these), then the depth bound.
+  app.useBodyParser('json', { limit: JSON_MAX_BYTES });
+  app.use(jsonDepthLimit());
 
   const sessions = app.get(SessionService);
   const { passport } = app.get(AuthPassportService);

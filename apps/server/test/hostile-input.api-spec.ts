@@ -142,6 +142,103 @@ describe('hostile input', () => {
     });
   });
 
+  describe('JSON nested deep', () => {
+    /** `{"a":{"a":...{"a":1}}}`, `levels` objects deep, as text (too deep for JSON.stringify). */
+    const nestedText = (levels: number) => `${'{"a":'.repeat(levels)}1${'}'.repeat(levels)}`;
+    /** An amendment of `target` whose change to joules is `levels` deep, as JSON text. */
+    const deepAmendText = (target: string, levels: number) =>
+      JSON.stringify(amend(target, { joules: '@@deep@@' })).replace('"@@deep@@"', nestedText(levels));
+    const postText = (who: SignedInAgent, url: string, body: string) =>
+      who.agent.post(url).set('x-csrf-token', who.csrf).set('content-type', 'application/json').send(body);
+
+    it('is refused at the edge with a 400 that says so, at any depth past the bound, on every route', async () => {
+      const { id, shockId } = await endedCode();
+      const before = entryCount(id);
+      // 15,000 levels is 75 kB, under the 100 kB body limit.
+      for (const levels of [20, 1_900, 5_000, 15_000]) {
+        const res = await postText(recorder, `/api/codes/${id}/entries`, deepAmendText(shockId, levels)).expect(400);
+        expect(res.body).toEqual({ statusCode: 400, error: 'Bad Request', message: 'The JSON body is nested more than 16 levels deep; at most 16 are accepted' });
+      }
+      await postText(recorder, `/api/codes/${id}/addenda`, deepAmendText(shockId, 3_000)).expect(400);
+      await admin.agent.put('/api/protocol').set('x-csrf-token', admin.csrf).set('content-type', 'application/json').send(nestedText(100)).expect(400);
+      await postText(recorder, '/api/auth/login', `{"username":"x","password":${nestedText(100)}}`).expect(400);
+      expect(entryCount(id)).toBe(before);
+      // Within the bound, the amendment's own check answers.
+      const shallow = await postText(recorder, `/api/codes/${id}/entries`, deepAmendText(shockId, 3)).expect(400);
+      expect(shallow.body.message).toMatch(/joules/);
+    });
+
+    it('gets a final 400 acknowledgement on the live socket, never a 500 that a device would retry for ever', async () => {
+      const { id, shockId } = await endedCode();
+      const socket: LiveClient = connectLive(app.baseUrl, { cookie: cookieHeader(recorder, app.baseUrl), origin: app.baseUrl });
+      try {
+        await connected(socket);
+        // Written as raw socket.io frames: the client library cannot serialise such depth itself.
+        const engine = socket.io.engine;
+        let ackId = 900;
+        const rawEmit = (payload: string) =>
+          new Promise<unknown>((resolve) => {
+            const id = ++ackId;
+            const onMessage = (data: unknown) => {
+              const frame = String(data);
+              const prefix = `3/live,${id}`;
+              if (!frame.startsWith(prefix)) return;
+              engine.off('message', onMessage);
+              resolve((JSON.parse(frame.slice(prefix.length)) as unknown[])[0]);
+            };
+            engine.on('message', onMessage);
+            engine.write(`2/live,${id}["entry:add",${payload}]`);
+          });
+        // 10,000 levels is 50 kB, under the socket's 64 kB message cap.
+        for (const levels of [20, 1_900, 5_000, 10_000]) {
+          const ack = await rawEmit(`{"codeId":"${id}","entry":${deepAmendText(shockId, levels)}}`);
+          expect(ack).toEqual({ ok: false, status: 400, error: 'The message is nested more than 16 levels deep; at most 16 are accepted' });
+        }
+        // The connection stays open and takes the next good message.
+        const good = await socket.emitWithAck('entry:add', { codeId: id, entry: amend(shockId, { joules: 150 }) });
+        expect(good).toMatchObject({ ok: true });
+      } finally {
+        socket.disconnect();
+      }
+    });
+
+    it('already stored by an older build, makes the record say so (409) instead of overflowing the stack, also after a restart', async () => {
+      let own = await startTestApp();
+      try {
+        await addUser(own, 'old.recorder', ['recorder']);
+        let writer = await signIn(own, 'old.recorder');
+        const res = await post(writer, '/api/codes', { category: 'adult' }).expect(201);
+        const id = (res.body as { code: { id: string } }).code.id;
+        const shock = makeEntry({ kind: 'shock', joules: 200, synchronized: false });
+        await post(writer, `/api/codes/${id}/entries`, shock).expect(201);
+        // As an older build stored it: the row, without a link.
+        const deepId = '6f0e8a52-9b1c-4d2e-8f3a-5b6c7d8e9f01';
+        const body = deepAmendText(shock.id, 1_000).replace(/"id":"[^"]+"/, `"id":"${deepId}"`);
+        own.database.sqlite
+          .prepare(
+            `INSERT INTO entries (id, code_id, kind, at, at_ms, user_id, received_at, recorded_at, addendum, body)
+             SELECT ?, code_id, 'amend', at, at_ms, user_id, received_at, recorded_at, 0, ? FROM entries WHERE id = ?`,
+          )
+          .run(deepId, body, shock.id);
+        const check = async () => {
+          const view = await writer.agent.get(`/api/codes/${id}/record`).expect(409);
+          expect(view.body.message).toMatch(/is nested more than 200 levels deep/);
+          await writer.agent.get(`/api/codes/${id}/record.pdf`).expect(409);
+          await writer.agent.get(`/api/codes/${id}`).expect(200);
+          await writer.agent.get(`/api/codes/${id}/summary`).expect(200);
+        };
+        await check();
+        const { dataDir } = own.config;
+        await own.close();
+        own = await startTestApp({ dataDir });
+        writer = await signIn(own, 'old.recorder');
+        await check();
+      } finally {
+        await own.close();
+      }
+    });
+  });
+
   it('leaves the stored entries untouched: the log only grew by what was accepted', async () => {
     const { id } = await endedCode();
     const entries = (await recorder.agent.get(`/api/codes/${id}`).expect(200)).body.entries as StoredEntry[];

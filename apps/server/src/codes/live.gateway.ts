@@ -29,6 +29,7 @@ import { SessionService } from '../auth/session.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { APP_CONFIG } from '../config/config.module.js';
 import type { AppConfig } from '../config/config.js';
+import { jsonShapeProblem } from '../common/json-limits.js';
 import { describeZodError } from '../common/zod-validation.pipe.js';
 import { UsersService } from '../users/users.service.js';
 import { EntriesService } from './entries.service.js';
@@ -103,6 +104,15 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
 
   handleConnection(socket: LiveSocket): void {
     void socket.join(BOARD_ROOM);
+    // Every message is bounded before any handler sees it: one nested too deep gets a 400
+    // acknowledgement, which a device's outbox takes as final (never "retry").
+    socket.use((packet, next) => {
+      const ack: unknown = packet[packet.length - 1];
+      const args = typeof ack === 'function' ? packet.slice(1, -1) : packet.slice(1);
+      const problem = args.map((arg) => jsonShapeProblem(arg, 'The message')).find(Boolean);
+      if (!problem) return next();
+      if (typeof ack === 'function') (ack as (res: LiveError) => void)({ ok: false, status: 400, error: problem });
+    });
   }
 
   private disconnectSession(sid: string): void {

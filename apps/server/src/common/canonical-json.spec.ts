@@ -35,6 +35,6 @@ describe('canonical text', () => {
   it('says a value is nested too deep instead of overflowing the stack', () => {
     const err = failure({ entries: [{ changes: nested(20_000) }] });
     expect(err.why).toMatch(/nested more than 200 levels deep/);
-    expect(err.path.startsWith('entries.0.changes.a.a')).toBe(true);
+    expect(err.path).toBe('entries.0.changes.a.a.a.….a');
   });
 });
