@@ -15,6 +15,7 @@ import type { AppConfig } from './config/config.js';
 import { openDatabase, type DatabaseHandle } from './db/database.js';
 import { JSON_MAX_BYTES, jsonDepthLimit } from './common/json-limits.js';
 import { requestLogger } from './common/request-logger.js';
+import { UniqueConflictFilter } from './common/unique-conflict.js';
 
 const NEST_LEVELS: Record<AppConfig['logLevel'], LogLevel[] | false> = {
   fatal: ['fatal'],
@@ -47,6 +48,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   app.set('trust proxy', config.trustProxy ? 1 : false);
   app.disable('x-powered-by');
   app.setGlobalPrefix('api');
+  app.useGlobalFilters(new UniqueConflictFilter(app.getHttpAdapter()));
 
   app.use(requestLogger(config.logLevel));
   app.use(

@@ -239,6 +239,16 @@ describe('hostile input', () => {
     });
   });
 
+  it('answers 409, never 500, when two requests race to take one unique name', async () => {
+    const body = { username: 'twin.request', displayName: 'Twin Request', password: 'a long enough passphrase', roles: ['recorder'] };
+    const answers = await Promise.all([1, 2, 3].map(() => admin.agent.post('/api/admin/users').set('x-csrf-token', admin.csrf).send(body)));
+    expect(answers.map((r) => r.status).sort()).toEqual([201, 409, 409]);
+    for (const res of answers.filter((r) => r.status === 409)) {
+      expect(res.body).toMatchObject({ statusCode: 409, error: 'Conflict', message: expect.stringMatching(/username/) as unknown });
+    }
+    expect(app.database.sqlite.prepare("SELECT count(*) FROM users WHERE username = 'twin.request'").pluck().get()).toBe(1);
+  });
+
   it('leaves the stored entries untouched: the log only grew by what was accepted', async () => {
     const { id } = await endedCode();
     const entries = (await recorder.agent.get(`/api/codes/${id}`).expect(200)).body.entries as StoredEntry[];

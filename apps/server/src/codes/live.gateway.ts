@@ -30,6 +30,7 @@ import type { SessionUser } from '../auth/session-user.js';
 import { APP_CONFIG } from '../config/config.module.js';
 import type { AppConfig } from '../config/config.js';
 import { jsonShapeProblem } from '../common/json-limits.js';
+import { uniqueConflict } from '../common/unique-conflict.js';
 import { describeZodError } from '../common/zod-validation.pipe.js';
 import { UsersService } from '../users/users.service.js';
 import { EntriesService } from './entries.service.js';
@@ -204,6 +205,8 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
         const text = Array.isArray(message) ? message.map(String).join('; ') : typeof message === 'string' ? message : err.message;
         return { ok: false, status: err.getStatus(), error: text };
       }
+      const conflict = uniqueConflict(err);
+      if (conflict) return { ok: false, status: 409, error: (conflict.getResponse() as { message: string }).message };
       this.logger.error(err instanceof Error ? (err.stack ?? err.message) : String(err));
       return { ok: false, status: 500, error: 'The server could not store this; it will be retried' };
     }
