@@ -13,6 +13,7 @@ describe('hostile input', () => {
   let recorder: SignedInAgent;
   let leader: SignedInAgent;
   let admin: SignedInAgent;
+  let reviewer: SignedInAgent;
   let otherId: string;
 
   beforeAll(async () => {
@@ -21,9 +22,11 @@ describe('hostile input', () => {
     otherId = (await addUser(app, 'someone.else', ['recorder'])).id;
     await addUser(app, 'kofi.asante', ['leader']);
     await addUser(app, 'site.admin', ['admin']);
+    await addUser(app, 'qi.reviewer', ['reviewer']);
     recorder = await signIn(app, 'maren.holt');
     leader = await signIn(app, 'kofi.asante');
     admin = await signIn(app, 'site.admin');
+    reviewer = await signIn(app, 'qi.reviewer');
   }, 90_000);
   afterAll(() => app.close());
 
@@ -247,6 +250,21 @@ describe('hostile input', () => {
       expect(res.body).toMatchObject({ statusCode: 409, error: 'Conflict', message: expect.stringMatching(/username/) as unknown });
     }
     expect(app.database.sqlite.prepare("SELECT count(*) FROM users WHERE username = 'twin.request'").pluck().get()).toBe(1);
+  });
+
+  it('exports no cell a spreadsheet would run as a formula, a leading minus included', async () => {
+    const payload = "-2+3+cmd|' /C calc'!A0";
+    const res = await post(recorder, '/api/codes', { category: 'adult', location: payload }).expect(201);
+    const id = (res.body as { code: { id: string } }).code.id;
+    await post(recorder, `/api/codes/${id}/entries`, makeEntry({ kind: 'end', outcome: 'died' })).expect(201);
+    const utstein = (await reviewer.agent.get('/api/quality/export/utstein.csv').expect(200)).text;
+    const row = utstein.split('\r\n').find((l) => l.startsWith(id))!;
+    expect(row).toContain(`,'${payload},`);
+    expect(row).not.toContain(`,${payload},`);
+
+    await post(admin, '/api/auth/login', { username: '-1+1', password: 'not the password' }).expect(401);
+    const audit = (await admin.agent.get('/api/admin/audit.csv').query({ action: 'auth.login-failed' }).expect(200)).text;
+    expect(audit).toContain(`,'-1+1,`);
   });
 
   it('leaves the stored entries untouched: the log only grew by what was accepted', async () => {

@@ -14,3 +14,4 @@ export * from './records.js';
 export * from './quality.js';
 export * from './reconciliation.js';
 export * from './text.js';
+export * from './csv.js';

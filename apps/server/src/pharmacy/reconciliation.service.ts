@@ -10,6 +10,7 @@ import {
   restockRows,
   UNIT_WORDS,
   formatAmount,
+  csvCell,
   type Code,
   type DrugTotal,
   type ReconciledDrug,
@@ -323,9 +324,3 @@ const oneLine = (value: string) => value.replace(/[\u0000-\u001f\u007f]+/g, ' ')
 
 export const slug = (s: string) => s.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'unit';
 
-/** RFC 4180 quoting, and a leading ' on text a spreadsheet would run as a formula. */
-export function csvCell(value: string | number): string {
-  let text = String(value);
-  if (typeof value === 'string' && /^[=+\-@\t\r]/.test(text)) text = `'${text}`;
-  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
