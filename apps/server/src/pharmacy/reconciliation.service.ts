@@ -88,10 +88,10 @@ export class ReconciliationService {
     });
   }
 
-  /** Pharmacists read every code; recorders and leaders the codes they took part in. */
+  /** Pharmacists read every code; recorders and leaders the codes they were part of. */
   read(user: SessionUser, codeId: string): ReconciliationView {
     const { view } = this.compute(codeId);
-    if (!hasAnyRole(user.roles, ['pharmacist']) && !this.repo.tookPart(codeId, user.id)) {
+    if (!hasAnyRole(user.roles, ['pharmacist']) && !this.codes.tookPart(codeId, user)) {
       throw new ForbiddenException('You can read the drug reconciliation of codes you took part in');
     }
     return view;
