@@ -1,6 +1,4 @@
-import { ArgumentsHost, Catch, ConflictException, HttpStatus } from '@nestjs/common';
-import { BaseExceptionFilter } from '@nestjs/core';
-import type { Response } from 'express';
+import { ConflictException, HttpStatus } from '@nestjs/common';
 
 const UNIQUE_CODES = new Set(['SQLITE_CONSTRAINT_UNIQUE', 'SQLITE_CONSTRAINT_PRIMARYKEY']);
 
@@ -17,14 +15,4 @@ export function uniqueConflict(err: unknown): ConflictException | undefined {
     error: 'Conflict',
     message: `${columns} is taken already: another request stored the same value first`,
   });
-}
-
-/** Every HTTP route: a unique-constraint failure is a 409; anything else goes on to Nest's own handling. */
-@Catch()
-export class UniqueConflictFilter extends BaseExceptionFilter {
-  override catch(exception: unknown, host: ArgumentsHost): void {
-    const conflict = host.getType() === 'http' ? uniqueConflict(exception) : undefined;
-    if (!conflict) return super.catch(exception, host);
-    host.switchToHttp().getResponse<Response>().status(HttpStatus.CONFLICT).json(conflict.getResponse());
-  }
 }

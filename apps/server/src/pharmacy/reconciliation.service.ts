@@ -26,7 +26,8 @@ import { AuditService } from '../audit/audit.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { CodesService } from '../codes/codes.service.js';
 import { ProtocolService } from '../protocol/protocol.service.js';
-import { UsersService } from '../users/users.service.js';
+import type { PasswordAttempt } from '../auth/login-throttle.service.js';
+import { PasswordCheckService } from '../auth/password-check.service.js';
 import { APP_CONFIG } from '../config/config.module.js';
 import type { AppConfig } from '../config/config.js';
 import { MailService } from '../mail/mail.service.js';
@@ -60,7 +61,7 @@ export class ReconciliationService {
     @Inject(PharmacyRepository) private readonly repo: PharmacyRepository,
     @Inject(CodesService) private readonly codes: CodesService,
     @Inject(ProtocolService) private readonly protocol: ProtocolService,
-    @Inject(UsersService) private readonly users: UsersService,
+    @Inject(PasswordCheckService) private readonly passwords: PasswordCheckService,
     @Inject(AuditService) private readonly audit: AuditService,
     @Inject(MailService) private readonly mail: MailService,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
@@ -108,11 +109,11 @@ export class ReconciliationService {
     return this.compute(codeId).view;
   }
 
-  async sign(user: SessionUser, codeId: string, password: string): Promise<ReconciliationView> {
+  async sign(user: SessionUser, codeId: string, password: string, attempt: PasswordAttempt): Promise<ReconciliationView> {
     const code = this.codes.get(codeId);
     this.assertOpen(code);
     // The password again at the moment of signing, as for the record's signatures.
-    await this.users.confirmPassword(user, password, { failedAction: 'reconciliation.sign-failed', codeId });
+    await this.passwords.confirm(user, password, attempt, { failedAction: 'reconciliation.sign-failed', codeId });
     if (!this.repo.findReconciliation(codeId)) {
       this.repo.saveDraft({ codeId, userId: user.id, trayId: this.defaultTrayId(code), notes: null, lines: [] }, new Date().toISOString(), randomUUID);
     }

@@ -1,4 +1,5 @@
 import { Module } from '@nestjs/common';
+import { AuthModule } from '../auth/auth.module.js';
 import { CodesModule } from '../codes/codes.module.js';
 import { ProtocolModule } from '../protocol/protocol.module.js';
 import { UsersModule } from '../users/users.module.js';
@@ -8,7 +9,7 @@ import { QualityRepository } from './quality.repository.js';
 import { QualityService } from './quality.service.js';
 
 @Module({
-  imports: [CodesModule, ProtocolModule, UsersModule],
+  imports: [AuthModule, CodesModule, ProtocolModule, UsersModule],
   controllers: [QualityController],
   providers: [QualityRepository, QualityService, QualityMetricsService],
 })

@@ -18,7 +18,8 @@ import {
 } from '@steadyhand/shared';
 import type { Response } from 'express';
 import { memoryStorage } from 'multer';
-import { CurrentUser, Roles } from '../auth/auth.decorators.js';
+import { Attempt, CurrentUser, Roles } from '../auth/auth.decorators.js';
+import type { PasswordAttempt } from '../auth/login-throttle.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { ZodValidationPipe } from '../common/zod-validation.pipe.js';
 import type { RecordCode } from './record-canonical.js';
@@ -50,8 +51,9 @@ export class RecordsController {
     @CurrentUser() user: SessionUser,
     @Param('id') id: string,
     @Body(new ZodValidationPipe(signRecordSchema)) body: SignRecordRequest,
+    @Attempt() attempt: PasswordAttempt,
   ): Promise<{ signature: RecordSignature; status: RecordStatus }> {
-    return this.records.sign(user, id, body);
+    return this.records.sign(user, id, body, attempt);
   }
 
   @Roles(RECORDER, LEADER)

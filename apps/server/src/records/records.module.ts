@@ -1,4 +1,5 @@
 import { Module } from '@nestjs/common';
+import { AuthModule } from '../auth/auth.module.js';
 import { CodesModule } from '../codes/codes.module.js';
 import { ProtocolModule } from '../protocol/protocol.module.js';
 import { UsersModule } from '../users/users.module.js';
@@ -8,7 +9,7 @@ import { SignaturesRepository } from './signatures.repository.js';
 
 /** The signed record: review details, signatures, addenda, the PDF and its verification. */
 @Module({
-  imports: [CodesModule, UsersModule, ProtocolModule],
+  imports: [AuthModule, CodesModule, UsersModule, ProtocolModule],
   controllers: [RecordsController],
   providers: [RecordsService, SignaturesRepository],
   exports: [RecordsService],

@@ -33,7 +33,8 @@ import { APP_CONFIG } from '../config/config.module.js';
 import type { AppConfig } from '../config/config.js';
 import { MailService } from '../mail/mail.service.js';
 import { ProtocolService } from '../protocol/protocol.service.js';
-import { UsersService } from '../users/users.service.js';
+import type { PasswordAttempt } from '../auth/login-throttle.service.js';
+import { PasswordCheckService } from '../auth/password-check.service.js';
 import { DB } from '../db/database.module.js';
 import type { Db } from '../db/database.js';
 import { inArray } from 'drizzle-orm';
@@ -66,7 +67,7 @@ export class RecordsService {
     @Inject(EntriesService) private readonly entries: EntriesService,
     @Inject(SignaturesRepository) private readonly signatures: SignaturesRepository,
     @Inject(ProtocolService) private readonly protocol: ProtocolService,
-    @Inject(UsersService) private readonly users: UsersService,
+    @Inject(PasswordCheckService) private readonly passwords: PasswordCheckService,
     @Inject(AuditService) private readonly audit: AuditService,
     // Optional, so the records feature works (and its tests run) in an app without the mail module.
     @Optional() @Inject(MailService) private readonly mail?: MailService,
@@ -226,7 +227,7 @@ export class RecordsService {
 
   // --- signing -------------------------------------------------------------------------------
 
-  async sign(user: SessionUser, id: string, body: SignRecordRequest): Promise<{ signature: RecordSignature; status: RecordStatus }> {
+  async sign(user: SessionUser, id: string, body: SignRecordRequest, attempt: PasswordAttempt): Promise<{ signature: RecordSignature; status: RecordStatus }> {
     const code = this.recordCode(id);
     if (code.status !== 'ended') throw new ConflictException('The code has not ended: a record is signed after the code ends');
     const role = SIGNATURE_MEANING_ROLE[body.meaning];
@@ -243,7 +244,7 @@ export class RecordsService {
     }
 
     // 21 CFR 11.200: the password again at the moment of signing.
-    await this.users.confirmPassword(user, body.password, { failedAction: 'record.sign-failed', codeId: id, detail: { meaning: body.meaning } });
+    await this.passwords.confirm(user, body.password, attempt, { failedAction: 'record.sign-failed', codeId: id, detail: { meaning: body.meaning } });
 
     // After the await: checked again, since another signature may have landed meanwhile.
     if (this.signatures.ofCode(id).some((r) => r.meaning === body.meaning || r.userId === user.id)) {
