@@ -1,4 +1,4 @@
-import { HttpException, Inject, Logger } from '@nestjs/common';
+import { HttpException, Inject, Logger, type OnModuleDestroy } from '@nestjs/common';
 import {
   ConnectedSocket,
   MessageBody,
@@ -47,6 +47,9 @@ type Middleware = (req: HandshakeRequest, res: ServerResponse, next: (err?: unkn
 
 /** How long a socket's person is trusted before it is read from the database again. */
 const USER_RECHECK_MS = 3000;
+/** How often open sockets are checked against their sessions' idle and absolute timeouts. */
+const SESSION_SWEEP_MS = 2000;
+const SESSION_ENDED = 'Your session has ended: sign in again. What you recorded stays on this device and is sent once you have.';
 
 export const roomOf = (codeId: string) => `code:${codeId}`;
 /** Every screen that shows the board of live codes. */
@@ -65,9 +68,10 @@ const BOARD_ROOM = 'board';
   maxHttpBufferSize: 64 * 1024,
   cors: false,
 })
-export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConnection<LiveSocket>, OnGatewayDisconnect<LiveSocket> {
+export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConnection<LiveSocket>, OnGatewayDisconnect<LiveSocket>, OnModuleDestroy {
   private readonly logger = new Logger(LiveGateway.name);
   private readonly userCache = new Map<string, { user: SessionUser; at: number }>();
+  private sweepTimer: NodeJS.Timeout | undefined;
   @WebSocketServer() private readonly nsp!: LiveNamespace;
 
   constructor(
@@ -101,6 +105,33 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
     this.events.onCodesChanged((codeId) => nsp.to(BOARD_ROOM).emit('codes:changed', { codeId }));
     this.sessions.events.on('ended', (sid: string) => this.disconnectSession(sid));
     this.sessions.events.on('user-disabled', (userId: string) => this.disconnectUser(userId));
+    // A socket lives no longer than its session: idle or absolute timeout, it closes.
+    this.sweepTimer = setInterval(() => this.closeExpired(), SESSION_SWEEP_MS);
+    this.sweepTimer.unref();
+  }
+
+  onModuleDestroy(): void {
+    clearInterval(this.sweepTimer);
+  }
+
+  private closeExpired(): void {
+    const alive = new Map<string, boolean>();
+    for (const socket of this.nsp.sockets.values()) {
+      const { sid } = socket.data;
+      if (!alive.has(sid)) alive.set(sid, this.sessions.store.liveSession(sid) !== undefined);
+      if (!alive.get(sid)) socket.disconnect(true);
+    }
+  }
+
+  /**
+   * The session behind a socket, checked at each message that reads or writes a code: an
+   * expired one is answered 401 and the socket closes once the answer is sent.
+   */
+  private sessionAlive(socket: LiveSocket): boolean {
+    if (this.sessions.store.liveSession(socket.data.sid)) return true;
+    // After the acknowledgement has gone out (Nest sends it once this handler has returned).
+    setTimeout(() => socket.disconnect(true), 200).unref();
+    return false;
   }
 
   handleConnection(socket: LiveSocket): void {
@@ -155,6 +186,7 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
   join(@ConnectedSocket() socket: LiveSocket, @MessageBody() payload: unknown): CodeJoinAck {
     return this.answer(() => {
       const request = this.parse(codeJoinSchema, payload);
+      if (!this.sessionAlive(socket)) return { ok: false, status: 401, error: SESSION_ENDED };
       if (!this.currentUser(socket)) return { ok: false, status: 401, error: 'signed out' };
       const { entries, cursor } = this.entries.entriesAfter(request.codeId, request.after ?? 0);
       void socket.join(roomOf(request.codeId));
@@ -173,8 +205,11 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
     const receivedAt = new Date().toISOString();
     return this.answer(() => {
       const request = this.parse(entryAddSchema, payload);
+      if (!this.sessionAlive(socket)) return { ok: false, status: 401, error: SESSION_ENDED };
       const user = this.currentUser(socket);
       if (!user) return { ok: false, status: 401, error: 'signed out' };
+      // A tap is activity: the idle timeout starts again, as for a request.
+      this.sessions.store.touchIdle(socket.data.sid);
       const { entry, duplicate } = this.entries.add(user, request.codeId, request.entry, receivedAt);
       return { ok: true, entry, duplicate };
     });
