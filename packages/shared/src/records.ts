@@ -118,15 +118,29 @@ export type EntryChainStatus =
   | { valid: true; length: number; head: string | null }
   | { valid: false; length: number; head: string | null; brokenAt: EntryChainBreak };
 
+/**
+ * Every check of a record against tampering, as of now: the entry chain, the server's seal
+ * (entries, signatures, attachments), each signature, each attachment's file, and that entries
+ * stored after the first signature are addenda. `problems` says in words what failed.
+ */
+export interface RecordIntegrity {
+  valid: boolean;
+  problems: string[];
+}
+
 /** `GET /api/codes/:id/record`: the record, its digest now, its signatures and who wrote what. */
 export interface RecordView {
   record: CanonicalRecord;
   digest: string;
   /** The entry chain as checked now (not part of the record, so not covered by its digest). */
   chain: EntryChainStatus;
+  integrity: RecordIntegrity;
   signatures: RecordSignature[];
   status: RecordStatus;
-  /** userId → display name, for everyone who wrote an entry or signed. */
+  /**
+   * userId → display name, for everyone who wrote an entry or signed: the name kept with their
+   * entries when it was (a later rename changes nothing), else their name now.
+   */
   people: Record<string, string>;
 }
 

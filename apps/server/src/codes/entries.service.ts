@@ -59,7 +59,8 @@ export class EntriesService {
       throw new ConflictException('A signed record stays ended: amend the end entry or add a note instead of voiding it');
     }
 
-    const result = this.repo.appendEntry(entry, { codeId, userId: user.id, receivedAt, addendum }, () => {
+    // The writer's name as it is now goes with the entry: a later rename changes nothing in the record.
+    const result = this.repo.appendEntry(entry, { codeId, userId: user.id, userName: user.displayName, receivedAt, addendum }, () => {
       if (!addendum && endTouched) this.syncCodeStatus(codeId);
     });
     if (!result.duplicate) {

@@ -78,7 +78,7 @@ export class RecordsController {
 
   @Roles('any')
   @Get('codes/:id/record')
-  record(@Param('id') id: string): RecordView {
+  record(@Param('id') id: string): Promise<RecordView> {
     return this.records.view(id);
   }
 
@@ -104,7 +104,7 @@ export class RecordsController {
   @Post('records/verify')
   @HttpCode(200)
   @UseInterceptors(FileInterceptor('file', { storage: memoryStorage(), limits: { fileSize: MAX_VERIFY_BYTES, files: 1 } }))
-  verify(@UploadedFile() file: Express.Multer.File | undefined, @Body() body: unknown): VerifyRecordResult {
+  verify(@UploadedFile() file: Express.Multer.File | undefined, @Body() body: unknown): Promise<VerifyRecordResult> {
     if (file) return this.records.verifyPdf(file.buffer);
     if (body && typeof body === 'object' && Object.keys(body).length === 0) throw new BadRequestException('Send a PDF as the multipart field "file", or JSON { "digest" }');
     return this.records.verifyDigest(new ZodValidationPipe(verifyRecordSchema).transform(body));

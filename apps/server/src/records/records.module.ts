@@ -1,4 +1,5 @@
 import { Module } from '@nestjs/common';
+import { AttachmentsModule } from '../attachments/attachments.module.js';
 import { AuthModule } from '../auth/auth.module.js';
 import { CodesModule } from '../codes/codes.module.js';
 import { ProtocolModule } from '../protocol/protocol.module.js';
@@ -9,7 +10,7 @@ import { SignaturesRepository } from './signatures.repository.js';
 
 /** The signed record: review details, signatures, addenda, the PDF and its verification. */
 @Module({
-  imports: [AuthModule, CodesModule, UsersModule, ProtocolModule],
+  imports: [AuthModule, AttachmentsModule, CodesModule, UsersModule, ProtocolModule],
   controllers: [RecordsController],
   providers: [RecordsService, SignaturesRepository],
   exports: [RecordsService],
