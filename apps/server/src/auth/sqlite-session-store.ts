@@ -1,5 +1,5 @@
 import session from 'express-session';
-import { and, eq, gt, lt, ne } from 'drizzle-orm';
+import { and, eq, gt, lt, ne, sql } from 'drizzle-orm';
 import type { Db } from '../db/database.js';
 import { sessions } from '../db/schema/index.js';
 
@@ -18,7 +18,21 @@ export class SqliteSessionStore extends session.Store {
     private readonly absoluteMs: number,
   ) {
     super();
+    // Prepared once: the live socket asks on every tap.
+    this.liveQuery = db
+      .select({ data: sessions.data, userId: sessions.userId, expiresAt: sessions.expiresAt })
+      .from(sessions)
+      .where(eq(sessions.sid, sql.placeholder('sid')))
+      .prepare();
+    this.touchQuery = db
+      .update(sessions)
+      .set({ expiresAt: sql`${sql.placeholder('expiresAt')}`, lastSeenAt: sql`${sql.placeholder('now')}` })
+      .where(and(eq(sessions.sid, sql.placeholder('sid')), gt(sessions.expiresAt, sql.placeholder('now'))))
+      .prepare();
   }
+
+  private readonly liveQuery;
+  private readonly touchQuery;
 
   private expiresAt(): number {
     return Date.now() + this.idleMs;
@@ -81,7 +95,7 @@ export class SqliteSessionStore extends session.Store {
    * timeouts), or undefined: what a live socket checks before each write.
    */
   liveSession(sid: string, now = Date.now()): { userId: string } | undefined {
-    const row = this.db.select({ data: sessions.data, userId: sessions.userId, expiresAt: sessions.expiresAt }).from(sessions).where(eq(sessions.sid, sid)).get();
+    const row = this.liveQuery.get({ sid });
     if (!row?.userId || row.expiresAt <= now) return undefined;
     const signedInAt = (JSON.parse(row.data) as { signedInAt?: number }).signedInAt;
     if (signedInAt === undefined || now - signedInAt > this.absoluteMs) return undefined;
@@ -91,7 +105,7 @@ export class SqliteSessionStore extends session.Store {
   /** Activity on a live socket (a tap) counts like a request: the idle timeout starts again. */
   touchIdle(sid: string): void {
     const now = Date.now();
-    this.db.update(sessions).set({ expiresAt: now + this.idleMs, lastSeenAt: now }).where(and(eq(sessions.sid, sid), gt(sessions.expiresAt, now))).run();
+    this.touchQuery.run({ sid, now, expiresAt: now + this.idleMs });
   }
 
   /** Removes expired rows; called on a timer. */
