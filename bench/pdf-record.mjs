@@ -34,7 +34,7 @@ const { buildRecordPdf, renderPdf, describeEntry, sinceArrest } = await import(p
 const { recordDigest, pdfStampText, formatPdfStamp, RECORD_FORMAT } = await import(pathToFileURL(path.join(DIST, 'record-canonical.js')).href);
 const { CHAIN_START, entryLinkHash } = await import(pathToFileURL(path.join(DIST, '../codes/entry-chain.js')).href);
 const shared = await import(pathToFileURL(require.resolve('@steadyhand/shared')).href);
-const { DEFAULT_PROTOCOL, summarizeCode, effectiveEntries } = shared;
+const { DEFAULT_PROTOCOL, summarizeLog, effectiveEntries } = shared;
 
 // --- a 90-minute code with 600 entries ---------------------------------------------------------
 
@@ -103,7 +103,7 @@ const { privateKey } = generateKeyPairSync('ed25519');
 
 async function recordPdf() {
   const digest = recordDigest(record);
-  const summary = summarizeCode({ code: record.code, entries: record.entries, settings: DEFAULT_PROTOCOL });
+  const summary = summarizeLog(record.code, record.entries, DEFAULT_PROTOCOL);
   const generatedAt = new Date().toISOString();
   const signature = sign(null, Buffer.from(pdfStampText({ recordId: record.code.id, digest, generatedAt })), privateKey).toString('base64url');
   return renderPdf(

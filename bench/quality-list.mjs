@@ -153,7 +153,8 @@ async function main() {
   sqlite.transaction(() => {
     for (const c of codeRows) {
       const log = entriesOf.all(c.id).map((r) => toStoredEntry(camel(r)));
-      repo.upsertMetrics(computeCodeMetrics({ id: c.id, arrestAt: c.arrest_at, endedAt: c.ended_at, unitId: c.unit_id, category: c.category, weightKg: c.weight_kg }, log, shared.DEFAULT_PROTOCOL));
+      const code = { id: c.id, arrestAt: c.arrest_at, endedAt: c.ended_at, unitId: c.unit_id, category: c.category, weightKg: c.weight_kg };
+      repo.upsertMetrics(computeCodeMetrics(code, shared.foldLog(code, log, shared.DEFAULT_PROTOCOL)));
     }
   })();
   const metricsMs = performance.now() - t0;

@@ -151,4 +151,88 @@ describe('codes and the entry log over REST', () => {
     const row = app.database.sqlite.prepare("SELECT action, detail FROM audit_events WHERE code_id = ? AND action = 'code.details-changed'").get(code.id) as { detail: string };
     expect(JSON.parse(row.detail).location).toEqual({ from: null, to: '4 West Medical, bed 12' });
   });
+
+  const post = (codeId: string, fields: Parameters<typeof makeEntry>[0], at: Date) =>
+    recorder.agent.post(`/api/codes/${codeId}/entries`).set('x-csrf-token', recorder.csrf).send(makeEntry(fields, at)).expect(201);
+
+  it('answers the state at any moment of a code: the rhythm check due then, and its reminders', async () => {
+    const arrest = Date.now() - 10 * 60_000;
+    const code = await startCode({ category: 'adult', arrestAt: new Date(arrest).toISOString() });
+    const at = (s: number) => new Date(arrest + s * 1000);
+    await post(code.id, { kind: 'cpr', action: 'start' }, at(15));
+    // A 6 s airway pause at 1:50 of the cycle does not restart it: only a rhythm check or a shock
+    // ends the 2-min cycle (AHA 2020 Adult Cardiac Arrest Algorithm, "CPR 2 min").
+    await post(code.id, { kind: 'cpr', action: 'stop', reason: 'airway' }, at(125));
+    await post(code.id, { kind: 'cpr', action: 'start' }, at(131));
+    await post(code.id, { kind: 'rhythm', rhythm: 'asystole', pulse: false }, at(136));
+    const res = await recorder.agent.get(`/api/codes/${code.id}/state`).query({ at: at(131 + 115).toISOString() }).expect(200);
+    // The late-tapped check (5 s after the restart) belongs to the pause: cycle 2 runs from 2:11, due at 4:11.
+    expect(res.body.rhythmCheckDueAt).toBe(at(131 + 120).toISOString());
+    expect(res.body.reminders.map((r: { kind: string }) => r.kind)).toEqual(expect.arrayContaining(['rhythm-check', 'epinephrine-first']));
+    expect(res.body.reminders.find((r: { kind: string }) => r.kind === 'rhythm-check').message).toBe('Rhythm check due in 0:05 (cycle 2).');
+    // Before the airway pause the same code showed cycle 1, due at 2:15.
+    const earlier = await recorder.agent.get(`/api/codes/${code.id}/state`).query({ at: at(120).toISOString() }).expect(200);
+    expect(earlier.body.rhythmCheckDueAt).toBe(at(135).toISOString());
+    expect(earlier.body.state.compressions.cycle.number).toBe(1);
+    // Now, by default; a bad time is a 400 that says what is wrong; an unknown code a 404.
+    const now = await pharmacist.agent.get(`/api/codes/${code.id}/state`).expect(200);
+    expect(Date.parse(now.body.at)).toBeGreaterThanOrEqual(arrest + 600_000 - 1000);
+    const bad = await recorder.agent.get(`/api/codes/${code.id}/state`).query({ at: 'yesterday' }).expect(400);
+    expect(bad.body.message).toMatch(/at must be an ISO 8601 date-time/);
+    await recorder.agent.get('/api/codes/00000000-0000-4000-8000-000000000000/state').expect(404);
+  });
+
+  it('lists exactly the allowed doses and the limit per drug, and energies by kind of shock', async () => {
+    const child = await startCode({ category: 'pediatric', weightKg: 18 });
+    const sheet = (await recorder.agent.get(`/api/codes/${child.id}/dosing`).expect(200)).body as {
+      drugs: { key: string; doses: { amount: number }[]; maxDoses: number | null }[];
+      defibrillation: { steps: { joules: number; joulesHigh: number | null }[] };
+      cardioversion: { steps: { joules: number; joulesHigh: number | null }[] };
+    };
+    // PALS medications table: amiodarone 5 mg/kg, may repeat twice (15 mg/kg): 90 mg three times for 18 kg.
+    expect(sheet.drugs.find((d) => d.key === 'amiodarone')).toMatchObject({ doses: [{ amount: 90 }, { amount: 90 }, { amount: 90 }], maxDoses: 3 });
+    // AHA 2020 PALS: 2 J/kg, 4 J/kg, then up to 10 J/kg or the adult dose (200 J here).
+    expect(sheet.defibrillation.steps.map((s) => [s.joules, s.joulesHigh])).toEqual([
+      [36, null],
+      [72, null],
+      [72, 180],
+    ]);
+    expect(sheet.cardioversion.steps[0]).toMatchObject({ joules: 9, joulesHigh: 18 });
+    const adult = await startCode({ category: 'adult' });
+    const a = (await recorder.agent.get(`/api/codes/${adult.id}/dosing`).expect(200)).body as typeof sheet;
+    // AHA 2020 adult algorithm: amiodarone 300 mg then 150 mg, two doses.
+    expect(a.drugs.find((d) => d.key === 'amiodarone')).toMatchObject({ doses: [{ amount: 300 }, { amount: 150 }], maxDoses: 2 });
+    expect(a.drugs.find((d) => d.key === 'epinephrine')?.maxDoses).toBeNull();
+  });
+
+  it('sets when the arrest was recognised if recording began late, audited, and every interval follows', async () => {
+    const start = Date.now() - 60_000;
+    const code = await startCode({ category: 'adult', arrestAt: new Date(start).toISOString() });
+    await post(code.id, { kind: 'cpr', action: 'start' }, new Date(start + 30_000));
+    const earlier = new Date(start - 2 * 60_000).toISOString();
+    const res = await recorder.agent.patch(`/api/codes/${code.id}`).set('x-csrf-token', recorder.csrf).send({ arrestAt: earlier }).expect(200);
+    expect(res.body.code.arrestAt).toBe(earlier);
+    const summary = (await recorder.agent.get(`/api/codes/${code.id}/summary`).expect(200)).body as { intervals: { arrestToFirstCompressions: number } };
+    expect(summary.intervals.arrestToFirstCompressions).toBe(150);
+    const row = app.database.sqlite.prepare("SELECT detail FROM audit_events WHERE code_id = ? AND action = 'code.details-changed'").get(code.id) as { detail: string };
+    expect(JSON.parse(row.detail).arrestAt).toEqual({ from: new Date(start).toISOString(), to: earlier });
+    // Not after the first entry, not in the future, and a clear 400 for a malformed time.
+    const late = await recorder.agent.patch(`/api/codes/${code.id}`).set('x-csrf-token', recorder.csrf).send({ arrestAt: new Date(start + 40_000).toISOString() }).expect(400);
+    expect(late.body.message).toMatch(/before the first entry/);
+    await recorder.agent.patch(`/api/codes/${code.id}`).set('x-csrf-token', recorder.csrf).send({ arrestAt: new Date(Date.now() + 3_600_000).toISOString() }).expect(400);
+    const bad = await recorder.agent.patch(`/api/codes/${code.id}`).set('x-csrf-token', recorder.csrf).send({ arrestAt: '07:42' }).expect(400);
+    expect(bad.body.message).toMatch(/arrestAt must be an ISO 8601 date-time/);
+  });
+
+  it('a switch between adult and child is stamped and audited, and the sheet recalculates', async () => {
+    const code = await startCode({ category: 'adult', weightKg: 12, weightSource: 'stated' });
+    const adultSheet = (await recorder.agent.get(`/api/codes/${code.id}/dosing`).expect(200)).body as { categoryWarning: string | null };
+    expect(adultSheet.categoryWarning).toMatch(/under 40 kg/);
+    const res = await recorder.agent.patch(`/api/codes/${code.id}`).set('x-csrf-token', recorder.csrf).send({ category: 'pediatric' }).expect(200);
+    expect(res.body.code).toMatchObject({ category: 'pediatric', weightSource: 'stated' });
+    expect(Date.parse(res.body.code.categoryChangedAt)).toBeGreaterThan(Date.now() - 10_000);
+    const sheet = (await recorder.agent.get(`/api/codes/${code.id}/dosing`).expect(200)).body as { drugs: { key: string; doses: { display: string }[] }[] };
+    // PALS medications table: 0.01 mg/kg × 12 kg = 0.12 mg.
+    expect(sheet.drugs.find((d) => d.key === 'epinephrine')?.doses[0]?.display).toBe('0.12 mg');
+  });
 });

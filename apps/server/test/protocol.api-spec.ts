@@ -20,7 +20,8 @@ describe('protocol settings: admins edit them, every screen reads them', () => {
   afterAll(() => app.close());
 
   const put = (who: SignedInAgent, body: unknown) => who.agent.put('/api/protocol').set('x-csrf-token', who.csrf).send(body as object);
-  const read = async () => (await recorder.agent.get('/api/protocol').expect(200)).body as { protocol: ProtocolSettings; updatedAt: string | null; updatedBy: string | null };
+  const read = async () =>
+    (await recorder.agent.get('/api/protocol').expect(200)).body as { protocol: ProtocolSettings; version: number; updatedAt: string | null; updatedBy: string | null };
   const reset = () => admin.agent.post('/api/protocol/reset').set('x-csrf-token', admin.csrf).expect(200);
   const auditRows = (action: string) =>
     (app.database.sqlite.prepare('SELECT username, detail FROM audit_events WHERE action = ? ORDER BY id').all(action) as { username: string; detail: string }[]).map(
@@ -28,7 +29,7 @@ describe('protocol settings: admins edit them, every screen reads them', () => {
     );
 
   it('serves the published defaults, never saved, before any admin has changed them', async () => {
-    expect(await read()).toEqual({ protocol: DEFAULT_PROTOCOL, updatedAt: null, updatedBy: null });
+    expect(await read()).toEqual({ protocol: DEFAULT_PROTOCOL, version: 1, updatedAt: null, updatedBy: null });
   });
 
   it('stores an admin change; everyone reads it back with who saved it and when; the audit row holds old and new values', async () => {
@@ -39,6 +40,7 @@ describe('protocol settings: admins edit them, every screen reads them', () => {
     expect(res.body.protocol).toEqual(next);
 
     const got = await read();
+    expect(got.version).toBe(2);
     expect(got.protocol.cprCycleSeconds).toBe(150);
     expect(got.protocol.epinephrineWindowSeconds).toEqual({ min: 240, max: 360 });
     expect(got.updatedBy).toBe('Test admin.one');
@@ -49,35 +51,49 @@ describe('protocol settings: admins edit them, every screen reads them', () => {
     expect(rows[0]?.username).toBe('admin.one');
     // Only the changed top-level fields, each with its old and new value.
     expect(rows[0]?.detail).toEqual({
+      version: 2,
       cprCycleSeconds: { from: 120, to: 150 },
       epinephrineWindowSeconds: { from: { min: 180, max: 300 }, to: { min: 240, max: 360 } },
     });
   });
 
-  it("makes a code's dosing sheet follow a changed pediatric cap and edition", async () => {
-    const code = (await recorder.agent.post('/api/codes').set('x-csrf-token', recorder.csrf).send({ category: 'pediatric', weightKg: 40 }).expect(201)).body
-      .code as { id: string };
-    const epiOf = async () => {
-      const sheet = (await recorder.agent.get(`/api/codes/${code.id}/dosing`).expect(200)).body as {
+  it("gives new codes a changed pediatric cap and edition, and never changes a code already started", async () => {
+    const start = async () =>
+      ((await recorder.agent.post('/api/codes').set('x-csrf-token', recorder.csrf).send({ category: 'pediatric', weightKg: 40 }).expect(201)).body.code as { id: string; protocolVersion: number });
+    const epiOf = async (id: string) => {
+      const sheet = (await recorder.agent.get(`/api/codes/${id}/dosing`).expect(200)).body as {
         edition: string;
         drugs: { key: string; doses: { amount: number; capped: boolean }[] }[];
       };
       return { edition: sheet.edition, dose: sheet.drugs.find((d) => d.key === 'epinephrine')?.doses[0] };
     };
+    const past = await start();
     // PALS medications table (AHA 2010 Table 1 / 2015 ECC Handbook): 0.01 mg/kg, max 1 mg -> 40 kg gives 0.4 mg, under the cap.
-    expect((await epiOf()).dose).toMatchObject({ amount: 0.4, capped: false });
+    expect((await epiOf(past.id)).dose).toMatchObject({ amount: 0.4, capped: false });
 
-    const current = (await read()).protocol;
-    // A deliberately low cap, a test value only: the sheet must now stop at 0.3 mg.
+    const current = await read();
+    expect(past.protocolVersion).toBe(current.version);
+    // A deliberately low cap, a test value only: new codes' sheets must stop at 0.3 mg.
     const next = {
-      ...current,
+      ...current.protocol,
       edition: 'Harbourview local protocol, test edition',
-      drugs: current.drugs.map((d) => (d.key === 'epinephrine' ? { ...d, pediatric: [{ perKg: 0.01, maxDose: 0.3 }] } : d)),
+      drugs: current.protocol.drugs.map((d) =>
+        d.key === 'epinephrine' ? { ...d, pediatric: { doses: [{ perKg: 0.01, maxDose: 0.3 }], repeatLast: true } } : d,
+      ),
     };
     await put(admin, next).expect(200);
-    const after = await epiOf();
-    expect(after.edition).toBe('Harbourview local protocol, test edition');
-    expect(after.dose).toMatchObject({ amount: 0.3, capped: true });
+    const fresh = await start();
+    expect(fresh.protocolVersion).toBe(current.version + 1);
+    expect(await epiOf(fresh.id)).toMatchObject({ edition: 'Harbourview local protocol, test edition', dose: { amount: 0.3, capped: true } });
+    // The code started before the change keeps its version: same dose, same edition.
+    expect(await epiOf(past.id)).toMatchObject({ edition: DEFAULT_PROTOCOL.edition, dose: { amount: 0.4, capped: false } });
+    // Every version stays readable, for the screens of the codes that use it.
+    const v = (await recorder.agent.get(`/api/protocol/versions/${current.version}`).expect(200)).body as { version: number; protocol: ProtocolSettings };
+    expect(v.protocol.edition).toBe(DEFAULT_PROTOCOL.edition);
+    await recorder.agent.get('/api/protocol/versions/999').expect(404);
+    await recorder.agent.get('/api/protocol/versions/two').expect(400);
+    // The stored versions cannot be rewritten, even from inside the database.
+    expect(() => app.database.sqlite.prepare("UPDATE protocol_versions SET saved_at = 'x'").run()).toThrow(/append-only/);
   });
 
   it('refuses a non-admin with 403 and changes nothing', async () => {

@@ -68,7 +68,8 @@ export interface QualityListItem {
   firstRhythm: Rhythm | null;
   outcome: Outcome | null;
   anyRosc: boolean;
-  sustainedRosc: boolean;
+  /** Null when the code ended before 20 min of ROSC could be observed. */
+  sustainedRosc: boolean | null;
   durationSeconds: number | null;
   toFirstShockSeconds: number | null;
   toFirstEpinephrineSeconds: number | null;

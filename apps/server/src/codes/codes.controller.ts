@@ -1,11 +1,13 @@
 import { Body, Controller, Get, HttpCode, Inject, Param, Patch, Post, Query, Res } from '@nestjs/common';
 import {
+  codeStateQuerySchema,
   createCodeSchema,
   listCodesQuerySchema,
   newEntrySchema,
   updateCodeSchema,
   WRITER_ROLES,
   type Code,
+  type CodeStateAnswer,
   type CodeSummary,
   type DosingSheet,
   type NewEntry,
@@ -82,6 +84,13 @@ export class CodesController {
   @Get(':id/dosing')
   dosing(@Param('id') id: string): DosingSheet {
     return this.codes.dosing(id);
+  }
+
+  /** The state the pad and the wall show at a moment (default now): for the debrief, any moment. */
+  @Roles('any')
+  @Get(':id/state')
+  state(@Param('id') id: string, @Query(new ZodValidationPipe(codeStateQuerySchema)) query: z.output<typeof codeStateQuerySchema>): CodeStateAnswer {
+    return this.codes.state(id, query.at);
   }
 
   @Roles('any')

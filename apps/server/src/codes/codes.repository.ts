@@ -1,5 +1,5 @@
 import { BadRequestException, Inject, Injectable } from '@nestjs/common';
-import type { Code, CodeStatus, NewEntry, Outcome, StoredEntry } from '@steadyhand/shared';
+import type { Code, CodeStatus, NewEntry, Outcome, StoredEntry, WeightSource } from '@steadyhand/shared';
 import { and, asc, desc, eq, gt, isNull } from 'drizzle-orm';
 import type { Statement } from 'better-sqlite3';
 import { DATABASE, DB } from '../db/database.module.js';
@@ -26,6 +26,9 @@ export function toCode(row: CodeRow): Code {
     createdBy: row.createdBy,
     endedAt: row.endedAt,
     outcome: (row.outcome as Outcome | null) ?? null,
+    weightSource: (row.weightSource as WeightSource | null) ?? null,
+    protocolVersion: row.protocolVersion ?? null,
+    categoryChangedAt: row.categoryChangedAt ?? null,
   };
 }
 
@@ -142,7 +145,12 @@ export class CodesRepository {
 
   updateCode(
     id: string,
-    changes: Partial<Pick<CodeRow, 'status' | 'endedAt' | 'outcome' | 'location' | 'unitId' | 'patient' | 'weightKg' | 'category' | 'team' | 'debriefNotes'>>,
+    changes: Partial<
+      Pick<
+        CodeRow,
+        'status' | 'endedAt' | 'outcome' | 'location' | 'unitId' | 'patient' | 'weightKg' | 'weightSource' | 'category' | 'categoryChangedAt' | 'arrestAt' | 'team' | 'debriefNotes'
+      >
+    >,
   ): Code {
     return toCode(this.db.update(codes).set(changes).where(eq(codes.id, id)).returning().get());
   }

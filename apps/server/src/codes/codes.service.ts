@@ -1,15 +1,21 @@
 import { randomUUID } from 'node:crypto';
-import { ConflictException, Inject, Injectable, NotFoundException } from '@nestjs/common';
+import { BadRequestException, ConflictException, Inject, Injectable, NotFoundException } from '@nestjs/common';
 import {
-  computeDosing,
+  entryTimeMs,
+  foldLog,
   liveEntries,
-  summarizeCode,
+  stateAnswer,
+  stateAt,
+  summarize,
   type Code,
+  type CodeStateAnswer,
   type CodeStatus,
+  type CodeSummary,
   type CreateCodeRequest,
   type DosingSheet,
-  type CodeSummary,
+  type ProtocolSettings,
   type StoredEntry,
+  type Timeline,
   type UpdateCodeRequest,
 } from '@steadyhand/shared';
 import { AuditService } from '../audit/audit.service.js';
@@ -17,6 +23,9 @@ import type { SessionUser } from '../auth/session-user.js';
 import { ProtocolService } from '../protocol/protocol.service.js';
 import { CodesRepository } from './codes.repository.js';
 import { EntryEvents } from './entry-events.js';
+
+/** How far ahead of the server's clock an arrest time may be set (a device clock a little fast). */
+const ARREST_AT_FUTURE_SLACK_MS = 60_000;
 
 @Injectable()
 export class CodesService {
@@ -42,20 +51,43 @@ export class CodesService {
       status: 'active',
       category: input.category,
       weightKg: input.weightKg ?? null,
+      weightSource: input.weightKg !== undefined ? (input.weightSource ?? null) : null,
       location: input.location ?? null,
       unitId: input.unitId ?? null,
       patient: input.patient ?? null,
       arrestAt: input.arrestAt ? new Date(input.arrestAt).toISOString() : now,
       createdAt: now,
       createdBy: user.id,
+      // The code keeps the protocol in force now, whatever an admin saves later.
+      protocolVersion: this.protocol.currentVersion(),
     });
-    this.audit.record({ action: 'code.created', userId: user.id, username: user.username, codeId: code.id, detail: { category: code.category } });
+    this.audit.record({
+      action: 'code.created',
+      userId: user.id,
+      username: user.username,
+      codeId: code.id,
+      detail: { category: code.category, protocolVersion: code.protocolVersion },
+    });
     this.events.emitCodesChanged(code.id);
     return { code, created: true };
   }
 
   list(status?: CodeStatus): Code[] {
     return this.repo.listCodes(status);
+  }
+
+  find(id: string): Code | undefined {
+    return this.repo.findCode(id);
+  }
+
+  /** The stored log in cursor order (every correction and addendum). */
+  entriesOf(id: string): StoredEntry[] {
+    return this.repo.entriesOf(id);
+  }
+
+  /** Team and debrief notes kept beside the code, completed at review. */
+  reviewDetails(id: string): ReturnType<CodesRepository['reviewDetails']> {
+    return this.repo.reviewDetails(id);
   }
 
   get(id: string): Code {
@@ -72,13 +104,47 @@ export class CodesService {
     const before = this.get(id);
     // The signed details are part of the signed record: later changes go in as addenda.
     if (this.repo.isSigned(id)) throw new ConflictException('This record is signed: add an addendum');
-    const after = this.repo.updateCode(id, changes);
-    const changed = Object.fromEntries(
-      Object.keys(changes).map((k) => [k, { from: before[k as keyof Code] ?? null, to: after[k as keyof Code] ?? null }]),
-    );
+    const { arrestAt, ...rest } = changes;
+    const row: Parameters<CodesRepository['updateCode']>[1] = { ...rest };
+    if (arrestAt !== undefined) row.arrestAt = this.checkedArrestAt(id, arrestAt);
+    // Switching adult/child recalculates every dose and energy: the screens say when it happened.
+    if (changes.category !== undefined && changes.category !== before.category) row.categoryChangedAt = new Date().toISOString();
+    if (changes.weightKg === null) row.weightSource = null;
+    const after = this.repo.updateCode(id, row);
+    const fields = [...Object.keys(changes), ...(row.categoryChangedAt ? ['categoryChangedAt'] : [])] as (keyof Code)[];
+    const changed = Object.fromEntries(fields.map((k) => [k, { from: before[k] ?? null, to: after[k] ?? null }]));
     this.audit.record({ action: 'code.details-changed', userId: user.id, username: user.username, codeId: id, detail: changed });
     this.events.emitCodesChanged(id);
     return after;
+  }
+
+  /**
+   * When the arrest was recognised, set later if recording began late. It cannot come after
+   * anything recorded in the code, nor lie in the future.
+   */
+  private checkedArrestAt(id: string, value: string): string {
+    const ms = Date.parse(value);
+    if (ms > Date.now() + ARREST_AT_FUTURE_SLACK_MS) throw new BadRequestException('arrestAt: the arrest cannot be recognised in the future');
+    const first = liveEntries(this.repo.entriesOf(id))[0];
+    if (first && entryTimeMs(first) < ms) {
+      throw new BadRequestException(`arrestAt: the arrest must be recognised before the first entry (${first.at})`);
+    }
+    return new Date(ms).toISOString();
+  }
+
+  /** The code's own protocol version. */
+  protocolOf(code: Code): ProtocolSettings {
+    return this.protocol.forCode(code);
+  }
+
+  /** The code's log folded once with its own protocol version: every figure is read from this. */
+  timelineOf(code: Code, entries: readonly StoredEntry[]): Timeline {
+    return foldLog(code, entries, this.protocol.forCode(code));
+  }
+
+  timeline(id: string): Timeline {
+    const { code, entries } = this.withEntries(id);
+    return this.timelineOf(code, entries);
   }
 
   /**
@@ -98,12 +164,17 @@ export class CodesService {
   }
 
   dosing(id: string): DosingSheet {
-    const code = this.get(id);
-    return computeDosing({ category: code.category, weightKg: code.weightKg }, this.protocol.current());
+    const timeline = this.timeline(id);
+    if (!timeline.sheet) throw new BadRequestException('This code has a weight the dosing sheet cannot use');
+    return timeline.sheet;
   }
 
   summary(id: string): CodeSummary {
-    const { code, entries } = this.withEntries(id);
-    return summarizeCode({ code, entries, settings: this.protocol.current() });
+    return summarize(this.timeline(id));
+  }
+
+  /** What the pad and the wall showed (or show now) at a moment of the code. */
+  state(id: string, at?: string): CodeStateAnswer {
+    return stateAnswer(stateAt(this.timeline(id), at === undefined ? Date.now() : Date.parse(at)));
   }
 }

@@ -145,6 +145,7 @@ const fiveEast: DemoCode = {
   details: {
     category: 'pediatric',
     weightKg: 18,
+    weightSource: 'measured',
     location: 'Pediatric Ward 5 East, bed 3',
     patient: { name: 'Ilse Marchetti', mrn: 'HG-330571', sex: 'female', birthDate: '2020-06-21' },
   },
@@ -170,7 +171,7 @@ const fiveEast: DemoCode = {
     [hms(0, 7, 40), { kind: 'cpr', action: 'stop', reason: 'rhythm-check' }],
     [hms(0, 7, 43), { kind: 'rhythm', rhythm: 'organized', pulse: true }],
     [hms(0, 7, 45), { kind: 'rosc' }],
-    [hms(0, 30, 0), { kind: 'end', outcome: 'sustained-rosc' }],
+    [hms(0, 30, 0), { kind: 'end', outcome: 'rosc' }],
   ],
   signedBy: { recorder: 'maren.holt', leader: 'kofi.asante' },
   team: [

@@ -1,7 +1,6 @@
 import { Module } from '@nestjs/common';
 import { AuthModule } from '../auth/auth.module.js';
 import { CodesModule } from '../codes/codes.module.js';
-import { ProtocolModule } from '../protocol/protocol.module.js';
 import { UsersModule } from '../users/users.module.js';
 import { CartRestockService } from './cart-restock.service.js';
 import { PharmacyRepository } from './pharmacy.repository.js';
@@ -12,7 +11,7 @@ import { TraysService } from './trays.service.js';
 
 /** Tray templates, the pharmacist's worklist and drug reconciliation, restock lists. */
 @Module({
-  imports: [AuthModule, CodesModule, ProtocolModule, UsersModule],
+  imports: [AuthModule, CodesModule, UsersModule],
   controllers: [TraysController, ReconciliationController],
   providers: [PharmacyRepository, TraysService, ReconciliationService, CartRestockService],
 })

@@ -25,7 +25,6 @@ import type { z } from 'zod';
 import { AuditService } from '../audit/audit.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { CodesService } from '../codes/codes.service.js';
-import { ProtocolService } from '../protocol/protocol.service.js';
 import type { PasswordAttempt } from '../auth/login-throttle.service.js';
 import { PasswordCheckService } from '../auth/password-check.service.js';
 import { APP_CONFIG } from '../config/config.module.js';
@@ -60,7 +59,6 @@ export class ReconciliationService {
   constructor(
     @Inject(PharmacyRepository) private readonly repo: PharmacyRepository,
     @Inject(CodesService) private readonly codes: CodesService,
-    @Inject(ProtocolService) private readonly protocol: ProtocolService,
     @Inject(PasswordCheckService) private readonly passwords: PasswordCheckService,
     @Inject(AuditService) private readonly audit: AuditService,
     @Inject(MailService) private readonly mail: MailService,
@@ -243,7 +241,7 @@ export class ReconciliationService {
       items = tray?.items ?? [];
       lines = this.repo.linesOf(codeId);
     }
-    const rows: ReconciledDrug[] = reconcileDrugs({ drugTotals, items, lines, settings: this.protocol.current() });
+    const rows: ReconciledDrug[] = reconcileDrugs({ drugTotals, items, lines, settings: this.codes.protocolOf(code), category: code.category });
     const signatures = this.repo.signaturesOf([codeId]);
     const view: ReconciliationView = {
       code: {

@@ -1,5 +1,5 @@
-import { Body, Controller, Get, HttpCode, Inject, Post, Put } from '@nestjs/common';
-import { protocolSettingsSchema, type ProtocolDocument, type ProtocolSettings } from '@steadyhand/shared';
+import { Body, Controller, Get, HttpCode, HttpStatus, Inject, Param, ParseIntPipe, Post, Put } from '@nestjs/common';
+import { protocolSettingsSchema, type ProtocolDocument, type ProtocolSettings, type ProtocolVersion } from '@steadyhand/shared';
 import { CurrentUser, Roles } from '../auth/auth.decorators.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { ZodValidationPipe } from '../common/zod-validation.pipe.js';
@@ -14,6 +14,13 @@ export class ProtocolController {
   @Get()
   get(): ProtocolDocument {
     return this.protocol.document();
+  }
+
+  /** One saved version: a code's screens and record use the version it started with. */
+  @Roles('any')
+  @Get('versions/:version')
+  version(@Param('version', new ParseIntPipe({ errorHttpStatusCode: HttpStatus.BAD_REQUEST })) version: number): ProtocolVersion {
+    return this.protocol.version(version);
   }
 
   /** The whole settings, never a patch: the admin page always sends what it shows. */

@@ -1,4 +1,4 @@
-import { buildFhirBundle, DEFAULT_PROTOCOL, summarizeCode, type LogEntry } from '@steadyhand/shared';
+import { buildFhirBundle, DEFAULT_PROTOCOL, foldLog, summarize, type LogEntry } from '@steadyhand/shared';
 import { Fhir } from 'fhir';
 import { describe, expect, it } from 'vitest';
 
@@ -29,9 +29,10 @@ describe('FHIR document bundle from the shared builder', () => {
       e(600, { kind: 'end', outcome: 'other' }),
     ];
     const code = { id: uuid(), category: 'adult' as const, location: null, arrestAt: ARREST, endedAt: at(600), patient: { name: 'Unknown, Bay 2', sex: 'female' as const, birthDate: '1950-02-03', mrn: 'HV-0042' } };
+    const timeline = foldLog({ ...code, weightKg: null }, entries, DEFAULT_PROTOCOL);
     const bundle = buildFhirBundle({
-      code, entries, settings: DEFAULT_PROTOCOL, facility: 'Harbourview General Hospital', unitName: null,
-      summary: summarizeCode({ code: { ...code, weightKg: null }, entries, settings: DEFAULT_PROTOCOL }),
+      code, timeline, facility: 'Harbourview General Hospital', unitName: null,
+      summary: summarize(timeline),
       signatures: [{ printedName: 'Dr Kofi Asante', meaning: 'reviewed-confirmed', signedAt: at(900) }],
       generatedAt: at(1000), newId: uuid,
     });

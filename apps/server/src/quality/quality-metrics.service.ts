@@ -1,7 +1,6 @@
 import { Inject, Injectable, Logger, type OnApplicationBootstrap } from '@nestjs/common';
-import { CodesRepository } from '../codes/codes.repository.js';
+import { CodesService } from '../codes/codes.service.js';
 import { EntryEvents } from '../codes/entry-events.js';
-import { ProtocolService } from '../protocol/protocol.service.js';
 import { computeCodeMetrics } from './quality-metrics.js';
 import { QualityRepository } from './quality.repository.js';
 
@@ -16,8 +15,7 @@ export class QualityMetricsService implements OnApplicationBootstrap {
 
   constructor(
     @Inject(EntryEvents) private readonly events: EntryEvents,
-    @Inject(CodesRepository) private readonly codes: CodesRepository,
-    @Inject(ProtocolService) private readonly protocol: ProtocolService,
+    @Inject(CodesService) private readonly codes: CodesService,
     @Inject(QualityRepository) private readonly repo: QualityRepository,
   ) {}
 
@@ -36,13 +34,13 @@ export class QualityMetricsService implements OnApplicationBootstrap {
 
   /** Recomputes an ended code's row; `removeIfOpen`: a code not (or no longer) ended loses its row. */
   refresh(codeId: string, removeIfOpen = true): void {
-    const code = this.codes.findCode(codeId);
+    const code = this.codes.find(codeId);
     if (!code) return;
     if (code.status !== 'ended') {
       if (removeIfOpen) this.repo.deleteMetrics(codeId);
       return;
     }
-    this.repo.upsertMetrics(computeCodeMetrics(code, this.codes.entriesOf(codeId), this.protocol.current()));
+    this.repo.upsertMetrics(computeCodeMetrics(code, this.codes.timelineOf(code, this.codes.entriesOf(codeId))));
   }
 
   // The listener runs inside the entry's request after its commit: a failure here must never fail the tap.

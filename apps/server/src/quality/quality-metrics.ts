@@ -1,27 +1,18 @@
-import {
-  evaluateTargets,
-  missedTargets,
-  summarizeCode,
-  targetInputsOf,
-  type LogEntry,
-  type ProtocolSettings,
-  type SummaryCodeInput,
-} from '@steadyhand/shared';
+import { evaluateTargets, missedTargets, summarize, targetInputsOf, type Timeline } from '@steadyhand/shared';
 import type { codeMetrics } from '../db/schema/index.js';
 
 export type CodeMetricsRow = typeof codeMetrics.$inferInsert;
 
 /**
- * One ended code's row in `code_metrics`, from its log through the shared summary and targets,
+ * One ended code's row in `code_metrics`, from its folded log through the shared summary and targets,
  * so the list, the stats and the detail page agree. Also used by bench/quality-list.mjs.
  */
 export function computeCodeMetrics(
-  code: SummaryCodeInput & { id: string; unitId: string | null },
-  entries: readonly LogEntry[],
-  settings: ProtocolSettings,
+  code: { id: string; unitId: string | null; category: 'adult' | 'pediatric' },
+  timeline: Timeline,
   computedAt = new Date().toISOString(),
 ): CodeMetricsRow {
-  const summary = summarizeCode({ code, entries, settings });
+  const summary = summarize(timeline);
   const inputs = targetInputsOf(summary);
   const missed = missedTargets(evaluateTargets(summary));
   return {

@@ -1,7 +1,6 @@
 import { Module } from '@nestjs/common';
 import { AuthModule } from '../auth/auth.module.js';
 import { CodesModule } from '../codes/codes.module.js';
-import { ProtocolModule } from '../protocol/protocol.module.js';
 import { UsersModule } from '../users/users.module.js';
 import { QualityMetricsService } from './quality-metrics.service.js';
 import { QualityController } from './quality.controller.js';
@@ -9,7 +8,7 @@ import { QualityRepository } from './quality.repository.js';
 import { QualityService } from './quality.service.js';
 
 @Module({
-  imports: [AuthModule, CodesModule, ProtocolModule, UsersModule],
+  imports: [AuthModule, CodesModule, UsersModule],
   controllers: [QualityController],
   providers: [QualityRepository, QualityService, QualityMetricsService],
 })

@@ -1,10 +1,10 @@
 import { randomUUID } from 'node:crypto';
-import { ConflictException, Inject, Injectable, NotFoundException } from '@nestjs/common';
+import { ConflictException, Inject, Injectable } from '@nestjs/common';
 import {
   aggregateQuality,
   buildFhirBundle,
   evaluateTargets,
-  summarizeCode,
+  summarize,
   utsteinCsv,
   utsteinRow,
   type FhirBundle,
@@ -18,18 +18,16 @@ import {
 } from '@steadyhand/shared';
 import { AuditService } from '../audit/audit.service.js';
 import type { SessionUser } from '../auth/session-user.js';
-import { CodesRepository } from '../codes/codes.repository.js';
-import { ProtocolService } from '../protocol/protocol.service.js';
 import type { PasswordAttempt } from '../auth/login-throttle.service.js';
 import { PasswordCheckService } from '../auth/password-check.service.js';
+import { CodesService } from '../codes/codes.service.js';
 import { QualityRepository } from './quality.repository.js';
 
 @Injectable()
 export class QualityService {
   constructor(
     @Inject(QualityRepository) private readonly repo: QualityRepository,
-    @Inject(CodesRepository) private readonly codes: CodesRepository,
-    @Inject(ProtocolService) private readonly protocol: ProtocolService,
+    @Inject(CodesService) private readonly codes: CodesService,
     @Inject(PasswordCheckService) private readonly passwords: PasswordCheckService,
     @Inject(AuditService) private readonly audit: AuditService,
   ) {}
@@ -44,9 +42,8 @@ export class QualityService {
   }
 
   detail(id: string): QualityCodeDetail {
-    const code = this.codes.findCode(id);
-    if (!code) throw new NotFoundException(`No code with id ${id}`);
-    const summary = summarizeCode({ code, entries: this.codes.entriesOf(id), settings: this.protocol.current() });
+    const code = this.codes.get(id);
+    const summary = summarize(this.codes.timelineOf(code, this.codes.entriesOf(id)));
     return {
       code: {
         id: code.id,
@@ -79,8 +76,7 @@ export class QualityService {
   }
 
   private endedCode(id: string) {
-    const code = this.codes.findCode(id);
-    if (!code) throw new NotFoundException(`No code with id ${id}`);
+    const code = this.codes.get(id);
     if (code.status !== 'ended') throw new ConflictException('The code has not ended: it is reviewed after it ends');
     return code;
   }
@@ -124,35 +120,30 @@ export class QualityService {
 
   utsteinCsv(user: SessionUser, filter: QualityFilter): string {
     const ids = this.repo.codeIds(filter);
-    const settings = this.protocol.current();
     const facility = this.repo.facility();
     const units = new Map(this.repo.units().map((u) => [u.id, u.name]));
     const rows = ids.flatMap((id) => {
-      const code = this.codes.findCode(id);
+      const code = this.codes.find(id);
       if (!code) return [];
-      const entries = this.codes.entriesOf(id);
-      const summary = summarizeCode({ code, entries, settings });
-      return [utsteinRow({ code, entries, summary, facility, unitName: code.unitId ? (units.get(code.unitId) ?? null) : null })];
+      const summary = summarize(this.codes.timelineOf(code, this.codes.entriesOf(id)));
+      return [utsteinRow({ code, summary, facility, unitName: code.unitId ? (units.get(code.unitId) ?? null) : null })];
     });
     this.audit.record({ action: 'quality.export-utstein', userId: user.id, username: user.username, detail: { filter, codes: rows.length } });
     return utsteinCsv(rows);
   }
 
   fhirBundle(user: SessionUser, id: string): FhirBundle {
-    const code = this.codes.findCode(id);
-    if (!code) throw new NotFoundException(`No code with id ${id}`);
+    const code = this.codes.get(id);
     const signatures = this.repo.signaturesOf(id);
     if (signatures.length === 0) throw new ConflictException('The record is not signed yet: the FHIR document is made from a signed record');
-    const entries = this.codes.entriesOf(id);
-    const settings = this.protocol.current();
+    const timeline = this.codes.timelineOf(code, this.codes.entriesOf(id));
     const bundle = buildFhirBundle({
       code,
-      entries,
-      summary: summarizeCode({ code, entries, settings }),
+      timeline,
+      summary: summarize(timeline),
       signatures,
       facility: this.repo.facility(),
       unitName: this.repo.unitName(code.unitId),
-      settings,
       generatedAt: new Date().toISOString(),
       newId: randomUUID,
     });

@@ -2,6 +2,7 @@ import { createRequire } from 'node:module';
 import path from 'node:path';
 import {
   effectiveEntries,
+  flaggedDoseText,
   resolveDrug,
   SIGNATURE_MEANING_TEXT,
   SIGNATURE_MEANINGS,
@@ -71,7 +72,8 @@ const UNIT_TEXT: Record<string, string> = { mg: 'mg', ug: 'mcg', g: 'g', meq: 'm
 const STOP_REASON_TEXT: Record<string, string> = { 'rhythm-check': 'for a rhythm check', shock: 'for a shock', airway: 'for the airway', rosc: 'for ROSC', other: 'other reason' };
 const AIRWAY_TEXT: Record<string, string> = { 'bag-mask': 'Bag-mask', supraglottic: 'Supraglottic airway', endotracheal: 'Endotracheal tube' };
 const CONFIRMATION_TEXT: Record<string, string> = { 'waveform-capnography': 'waveform capnography', colorimetric: 'colorimetric CO2', auscultation: 'auscultation', other: 'other means' };
-const OUTCOME_TEXT: Record<string, string> = { 'sustained-rosc': 'Sustained ROSC', died: 'Died', transferred: 'Transferred', other: 'Other' };
+// Both words for an ended-in-ROSC code read the same: whether ROSC was sustained is computed, never chosen.
+const OUTCOME_TEXT: Record<string, string> = { 'sustained-rosc': 'ROSC at the end of the code', rosc: 'ROSC at the end of the code', died: 'Died', transferred: 'Transferred', other: 'Other' };
 const STATUS_TEXT: Record<RecordStatus, string> = {
   draft: 'DRAFT — not signed',
   'partly-signed': 'Partly signed — awaiting the second signature',
@@ -277,9 +279,16 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
     ['Any ROSC', s.anyRosc ? `Yes, first at ${at(s.times.firstRoscAt)}` : 'No'],
     [
       `Sustained ROSC (${sustainedMin} min or more)`,
-      s.sustainedRosc ? 'Yes' : s.anyRosc ? `No (longest ROSC period ${duration(longestRosc)}${s.roscAtEnd ? ', still in ROSC at the end' : ''})` : 'No',
+      s.sustainedRosc === true
+        ? 'Yes'
+        : s.sustainedRosc === null
+          ? `Not observed: the code ended after ${duration(longestRosc)} of ROSC`
+          : s.anyRosc
+            ? `No (longest ROSC period ${duration(longestRosc)})`
+            : 'No',
     ],
     ['Outcome', s.outcome ? (OUTCOME_TEXT[s.outcome] ?? s.outcome) : 'not recorded'],
+    ['Protocol', `Version ${s.protocolVersion ?? 1}: ${s.protocolEdition}`],
     [
       'Compression fraction',
       s.compressionFraction === null
@@ -288,6 +297,8 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
     ],
     [`Pauses over ${settings.pauseWarningSeconds} s`, s.longPauses.length ? `${s.longPauses.length}: ${s.longPauses.map(pauseText).join('; ')}` : 'None'],
     ['Longest pause', s.longestPause ? pauseText(s.longestPause) : 'None recorded'],
+    ['How measured', s.tapsNote],
+    ['Doses to check', s.flaggedDoses.length ? s.flaggedDoses.map(flaggedDoseText).join('; ') : 'None'],
     [
       `Epinephrine intervals outside ${windowText}`,
       s.epinephrineIntervals.length === 0
@@ -305,7 +316,7 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
     [
       'Shocks',
       s.shocks.length
-        ? `${s.shocks.length}: ` +
+        ? `${s.defibrillationCount} defibrillation${s.defibrillationCount === 1 ? '' : 's'}, ${s.cardioversionCount} synchronised: ` +
           s.shocks
             .map((x) => `${clock.time(x.at)} ${num(x.joules)} J${x.synchronized ? ' synchronised' : ''}${x.preShockPauseSeconds !== null ? `, pre-shock pause ${duration(x.preShockPauseSeconds)}` : ''}`)
             .join('; ')

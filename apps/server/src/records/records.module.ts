@@ -2,7 +2,6 @@ import { Module } from '@nestjs/common';
 import { AttachmentsModule } from '../attachments/attachments.module.js';
 import { AuthModule } from '../auth/auth.module.js';
 import { CodesModule } from '../codes/codes.module.js';
-import { ProtocolModule } from '../protocol/protocol.module.js';
 import { UsersModule } from '../users/users.module.js';
 import { RecordsController } from './records.controller.js';
 import { RecordsService } from './records.service.js';
@@ -10,7 +9,7 @@ import { SignaturesRepository } from './signatures.repository.js';
 
 /** The signed record: review details, signatures, addenda, the PDF and its verification. */
 @Module({
-  imports: [AuthModule, AttachmentsModule, CodesModule, UsersModule, ProtocolModule],
+  imports: [AuthModule, AttachmentsModule, CodesModule, UsersModule],
   controllers: [RecordsController],
   providers: [RecordsService, SignaturesRepository],
   exports: [RecordsService],

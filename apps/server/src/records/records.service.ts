@@ -12,7 +12,7 @@ import {
   liveEntries,
   SIGNATURE_MEANING_ROLE,
   SIGNATURE_MEANING_TEXT,
-  summarizeCode,
+  summarize,
   type NewEntry,
   type RecordListItem,
   type RecordSignature,
@@ -34,9 +34,9 @@ import { AttachmentsService } from '../attachments/attachments.service.js';
 import { APP_CONFIG } from '../config/config.module.js';
 import type { AppConfig } from '../config/config.js';
 import { MailService } from '../mail/mail.service.js';
-import { ProtocolService } from '../protocol/protocol.service.js';
 import type { PasswordAttempt } from '../auth/login-throttle.service.js';
 import { PasswordCheckService } from '../auth/password-check.service.js';
+import { CodesService } from '../codes/codes.service.js';
 import { DB } from '../db/database.module.js';
 import type { Db } from '../db/database.js';
 import { inArray } from 'drizzle-orm';
@@ -58,6 +58,19 @@ import { loadOrCreateRecordKeys, signText, verifyText, type RecordKeys } from '.
 import { buildRecordPdf, renderPdf } from './record-pdf.js';
 import { SignaturesRepository, type SignatureRow } from './signatures.repository.js';
 
+/**
+ * Code fields added after records were first signed (how the weight was obtained, the protocol
+ * version, a category switch) join the canonical record only when set, so a record signed before
+ * they existed keeps its digest and its signatures keep verifying.
+ */
+const LATER_CODE_FIELDS = ['weightSource', 'protocolVersion', 'categoryChangedAt'] as const;
+
+function withoutUnsetLaterFields(code: RecordCode): RecordCode {
+  const copy: Record<string, unknown> = { ...code };
+  for (const k of LATER_CODE_FIELDS) if (copy[k] === null) delete copy[k];
+  return copy as RecordCode;
+}
+
 @Injectable()
 export class RecordsService {
   private keys: RecordKeys | undefined;
@@ -68,7 +81,7 @@ export class RecordsService {
     @Inject(CodesRepository) private readonly codes: CodesRepository,
     @Inject(EntriesService) private readonly entries: EntriesService,
     @Inject(SignaturesRepository) private readonly signatures: SignaturesRepository,
-    @Inject(ProtocolService) private readonly protocol: ProtocolService,
+    @Inject(CodesService) private readonly codesService: CodesService,
     @Inject(PasswordCheckService) private readonly passwords: PasswordCheckService,
     @Inject(AuditService) private readonly audit: AuditService,
     @Inject(RecordSealService) private readonly seals: RecordSealService,
@@ -93,7 +106,7 @@ export class RecordsService {
     const code = this.codes.findCode(id);
     const details = this.codes.reviewDetails(id);
     if (!code || !details) throw new NotFoundException(`No code with id ${id}`);
-    return { ...code, team: details.team ?? [], debriefNotes: details.debriefNotes };
+    return withoutUnsetLaterFields({ ...code, team: details.team ?? [], debriefNotes: details.debriefNotes });
   }
 
   canonicalRecord(id: string): CanonicalRecord {
@@ -325,8 +338,10 @@ export class RecordsService {
   async pdf(user: SessionUser, id: string): Promise<{ buffer: Buffer; filename: string }> {
     const view = await this.view(id);
     const { record, digest } = view;
-    const settings = this.protocol.current();
-    const summary = summarizeCode({ code: record.code, entries: record.entries, settings });
+    // The code's own protocol version: an admin's later change never alters its record.
+    const timeline = this.codesService.timelineOf(record.code, record.entries);
+    const settings = timeline.protocol;
+    const summary = summarize(timeline);
     const generatedAt = new Date().toISOString();
     const signature = signText(this.recordKeys().privateKey, pdfStampText({ recordId: id, digest, generatedAt }));
     const definition = buildRecordPdf({

@@ -27,6 +27,7 @@ export async function seedFixtures(app: TestApp, agents: Record<Role, SignedInAg
   // Admin: a person to manage (a recorder, so never the last admin), and a unit with a room and a bed.
   values.userId = (await addUser(app, 'matrix.target', ['recorder'])).id;
   values.sessionId = 'no-such-session';
+  values.version = '1';
   const admin = (method: 'post', path: string, body: object) => agents.admin.agent[method](path).set('x-csrf-token', agents.admin.csrf).send(body).expect(201);
   const placesAfter = async (path: string, name: string) => (await admin('post', path, { name })).body as Places;
   const unit = (await placesAfter('/api/admin/units', 'Fixture Ward')).units.find((u) => u.name === 'Fixture Ward')!;

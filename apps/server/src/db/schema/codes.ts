@@ -21,6 +21,12 @@ export const codes = sqliteTable(
     /** Who was in the team and in what role, completed at review. */
     team: text('team', { mode: 'json' }).$type<{ name: string; role: string }[]>(),
     debriefNotes: text('debrief_notes'),
+    /** How the weight was obtained (measured, stated, length-based tape, estimated from age). */
+    weightSource: text('weight_source'),
+    /** The protocol version in force when the code started; null for codes started before versions (version 1). */
+    protocolVersion: integer('protocol_version'),
+    /** When adult/child was last switched during the code. */
+    categoryChangedAt: text('category_changed_at'),
     /**
      * The facility name as it was at the record's first signature, so a later rename of the
      * facility leaves the signed record (and its signatures) as they were. Null until signed.

@@ -6,3 +6,4 @@ export * from './records.js';
 export * from './pharmacy.js';
 export * from './quality.js';
 export * from './admin.js';
+export * from './protocol.js';

@@ -30,7 +30,8 @@ export const codeMetrics = sqliteTable(
     firstRhythm: text('first_rhythm'),
     outcome: text('outcome'),
     anyRosc: integer('any_rosc', { mode: 'boolean' }).notNull(),
-    sustainedRosc: integer('sustained_rosc', { mode: 'boolean' }).notNull(),
+    // Null: the code ended before 20 min of ROSC could be observed.
+    sustainedRosc: integer('sustained_rosc', { mode: 'boolean' }),
     durationSeconds: real('duration_seconds'),
     toCompressionsSeconds: real('to_compressions_seconds'),
     toFirstShockSeconds: real('to_first_shock_seconds'),
