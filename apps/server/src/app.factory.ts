@@ -5,7 +5,6 @@ import { ConsoleLogger, type LogLevel } from '@nestjs/common';
 import { NestFactory } from '@nestjs/core';
 import type { NestExpressApplication } from '@nestjs/platform-express';
 import type { NextFunction, Request, RequestHandler, Response } from 'express';
-import { rateLimit } from 'express-rate-limit';
 import helmet from 'helmet';
 import { AppModule } from './app.module.js';
 import { AuthPassportService } from './auth/auth-passport.service.js';
@@ -13,7 +12,9 @@ import { csrfProtection } from './auth/csrf.js';
 import { SessionService } from './auth/session.service.js';
 import type { AppConfig } from './config/config.js';
 import { openDatabase, type DatabaseHandle } from './db/database.js';
+import { JSON_MAX_BYTES, jsonDepthLimit } from './common/json-limits.js';
 import { requestLogger } from './common/request-logger.js';
+import { ApiExceptionFilter } from './common/api-exception.filter.js';
 
 const NEST_LEVELS: Record<AppConfig['logLevel'], LogLevel[] | false> = {
   fatal: ['fatal'],
@@ -46,6 +47,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   app.set('trust proxy', config.trustProxy ? 1 : false);
   app.disable('x-powered-by');
   app.setGlobalPrefix('api');
+  app.useGlobalFilters(new ApiExceptionFilter(app.getHttpAdapter()));
 
   app.use(requestLogger(config.logLevel));
   app.use(
@@ -65,13 +67,16 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
     }),
   );
 
+  // The JSON parser first (Nest would add its own at init, after these), then the depth bound.
+  app.useBodyParser('json', { limit: JSON_MAX_BYTES });
+  app.use(jsonDepthLimit());
+
   const sessions = app.get(SessionService);
   const { passport } = app.get(AuthPassportService);
   app.use(sessions.middleware);
   app.use(absoluteSessionTimeout(config.sessionAbsoluteMs, sessions));
   app.use(passport.initialize());
   app.use(passport.session());
-  app.use('/api/auth/login', loginRateLimit(config.loginIpLimit));
   app.use(csrfProtection(config.allowedOrigins));
   serveWebApp(app, config.webDist);
   return { app, database };
@@ -88,24 +93,6 @@ function absoluteSessionTimeout(limitMs: number, sessions: SessionService): Requ
       next(err);
     });
   };
-}
-
-/** Per-address throttling of failed sign-ins, on top of the per-account limit. */
-function loginRateLimit(limit: number): RequestHandler {
-  const limiter = rateLimit({
-    windowMs: 15 * 60 * 1000,
-    limit,
-    skipSuccessfulRequests: true,
-    standardHeaders: 'draft-7',
-    legacyHeaders: false,
-    handler: (req, res) => {
-      const resetTime = (req as Request & { rateLimit?: { resetTime?: Date } }).rateLimit?.resetTime;
-      const seconds = resetTime ? Math.max(1, Math.ceil((resetTime.getTime() - Date.now()) / 1000)) : 900;
-      res.setHeader('Retry-After', String(seconds));
-      res.status(429).json({ statusCode: 429, error: 'Too Many Requests', message: 'Too many sign-in attempts. Wait a while and try again.' });
-    },
-  });
-  return (req, res, next) => (req.method === 'POST' ? limiter(req, res, next) : next());
 }
 
 function serveWebApp(app: NestExpressApplication, webDist: string): void {

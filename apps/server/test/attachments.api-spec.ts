@@ -171,6 +171,17 @@ describe('attachments: monitor strips and photos on a code', () => {
     expect(Buffer.compare(saved.body as Buffer, pdf)).toBe(0);
   });
 
+  it('stores and serves a name without bidirectional controls, so a PDF never shows as a .png', async () => {
+    const codeId = await startCode();
+    const bytes = tinyPdf('Bidi name');
+    accepted.add(sha256(bytes));
+    const res = await upload(recorder, codeId, bytes, 'strip\u202egnp.pdf').expect(201);
+    expect(res.body.attachment.filename).toBe('stripgnp.pdf');
+    expect((await listOf(leader, codeId))[0]!.filename).toBe('stripgnp.pdf');
+    const served = await pharmacist.agent.get(`/api/attachments/${res.body.attachment.id as string}/content`).buffer(true).parse(binary).expect(200);
+    expect(served.headers['content-disposition']).toBe(`attachment; filename="stripgnp.pdf"; filename*=UTF-8''stripgnp.pdf`);
+  });
+
   it('answers 404 for an unknown code or attachment', async () => {
     const unknown = crypto.randomUUID();
     const res = await upload(recorder, unknown, tinyPng([5, 5, 5]), 'strip.png').expect(404);

@@ -1,12 +1,13 @@
 import { execFileSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import type { NewEntry, RecordView, StoredEntry } from '@steadyhand/shared';
 import canonicalize from 'canonicalize';
 import type Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { SEAL_KEY_FILE } from '../src/codes/record-seal.js';
 import { makeEntry } from './support/entries.js';
 import { connected, connectLive, cookieHeader } from './support/live-client.js';
 import { addUser, signIn, startTestApp, tempDataDir, type SignedInAgent, type TestApp } from './support/test-app.js';
@@ -196,7 +197,7 @@ describe('the entry chain', () => {
 });
 
 describe('linking entries stored before the chain existed', () => {
-  it('adds the missing links at start, per code in cursor order, continuing from the last link kept', async () => {
+  it('adds the missing links on the first start with seals, per code in cursor order, continuing from the last link kept', async () => {
     const dataDir = tempDataDir();
     let app = await startTestApp({ dataDir });
     let codeA: string;
@@ -210,11 +211,14 @@ describe('linking entries stored before the chain existed', () => {
       await post(recorder, `/api/codes/${codeA}/entries`, makeEntry({ kind: 'note', text: 'A again' })).expect(201);
       await post(recorder, `/api/codes/${codeB}/entries`, makeEntry({ kind: 'note', text: 'B again' })).expect(201);
       const { sqlite } = app.database;
-      // As an older build left it: code A without any link, code B with its first 3 only.
+      // As an older build left it: code A without any link, code B with its first 3 only, no
+      // record seals and no seal key (made at the first start of a build with seals).
       withoutTrigger(sqlite, 'entry_links_refuse_delete', () => {
         sqlite.prepare('DELETE FROM entry_links WHERE code_id = ?').run(codeA);
         sqlite.prepare('DELETE FROM entry_links WHERE code_id = ? AND position > 3').run(codeB);
       });
+      sqlite.prepare('DELETE FROM record_seals').run();
+      rmSync(path.join(dataDir, 'keys', SEAL_KEY_FILE));
       expect(linksOf(sqlite, codeA)).toHaveLength(0);
       expect(linksOf(sqlite, codeB)).toHaveLength(3);
       expect((await recordOf(recorder, codeA)).chain).toMatchObject({ valid: false, length: 0, head: null, brokenAt: { position: 1 } });
@@ -232,12 +236,48 @@ describe('linking entries stored before the chain existed', () => {
         expect(view.record.entries).toHaveLength(6);
         expect(linksOf(sqlite, id)).toEqual(expectedLinks(id, view.record.entries));
         expect(view.chain).toMatchObject({ valid: true, length: 6 });
+        expect(view.integrity).toEqual({ valid: true, problems: [] });
       }
       // New taps chain after the backfilled links.
       await post(reader, `/api/codes/${codeA}/entries`, makeEntry({ kind: 'note', text: 'after the restart' })).expect(201);
       const view = await recordOf(reader, codeA);
       expect(linksOf(sqlite, codeA)).toEqual(expectedLinks(codeA, view.record.entries));
       expect(view.chain).toMatchObject({ valid: true, length: 7 });
+    } finally {
+      await app.close();
+    }
+  });
+});
+
+describe('a chain linked before is never linked again', () => {
+  it('leaves links removed outside the application missing after a restart, and the record says so', async () => {
+    const dataDir = tempDataDir();
+    let app = await startTestApp({ dataDir });
+    let id: string;
+    try {
+      await addUser(app, 'relink.recorder', ['recorder']);
+      const recorder = await signIn(app, 'relink.recorder');
+      id = await startCode(recorder);
+      const { sqlite } = app.database;
+      // An entry changed, and every link of its code removed, hoping the next start re-links it.
+      withoutTrigger(sqlite, 'entries_refuse_update', () => {
+        sqlite.prepare("UPDATE entries SET body = json_set(body, '$.joules', 360) WHERE code_id = ? AND kind = 'shock'").run(id);
+      });
+      withoutTrigger(sqlite, 'entry_links_refuse_delete', () => {
+        sqlite.prepare('DELETE FROM entry_links WHERE code_id = ?').run(id);
+      });
+    } finally {
+      await app.close();
+    }
+    app = await startTestApp({ dataDir });
+    try {
+      await addUser(app, 'relink.reader', ['leader']);
+      const reader = await signIn(app, 'relink.reader');
+      expect(linksOf(app.database.sqlite, id)).toHaveLength(0);
+      const view = await recordOf(reader, id);
+      expect(view.chain).toMatchObject({ valid: false, length: 0, brokenAt: { position: 1, reason: 'this entry has no link' } });
+      expect(view.integrity.valid).toBe(false);
+      expect(view.integrity.problems.join(' ')).toMatch(/not the one the server sealed: the seal holds 5 entries/);
     } finally {
       await app.close();
     }

@@ -134,4 +134,66 @@ describe('the live socket (/live)', () => {
     await connected(other);
     expect(other.connected).toBe(true);
   });
+
+  describe('a socket lives no longer than its session', () => {
+    /** The session id inside the signed cookie (`s:<sid>.<signature>`). */
+    const sidOf = (who: SignedInAgent) => {
+      const value = decodeURIComponent(/steadyhand\.sid=([^;]+)/.exec(cookieHeader(who, app.baseUrl))![1]!);
+      return value.slice(2, value.lastIndexOf('.'));
+    };
+    const expireIdle = (who: SignedInAgent) => app.database.sqlite.prepare('UPDATE sessions SET expires_at = ? WHERE sid = ?').run(Date.now() - 1, sidOf(who));
+    const rows = (codeId: string) => app.database.sqlite.prepare('SELECT count(*) FROM entries WHERE code_id = ?').pluck().get(codeId) as number;
+
+    it('answers 401 to a tap after the idle timeout, stores nothing, and closes the socket, as REST answers 401', async () => {
+      const codeId = await startCode();
+      const own = await signIn(app, 'rec.live');
+      const socket = live(own);
+      await connected(socket);
+      expect(await socket.emitWithAck('code:join', { codeId })).toMatchObject({ ok: true });
+      const closed = new Promise<void>((resolve) => socket.once('disconnect', () => resolve()));
+      // The idle timeout has passed for this session (its row says when it expires).
+      expireIdle(own);
+      await own.agent.get('/api/auth/me').expect(401);
+      const ack = await socket.emitWithAck('entry:add', { codeId, entry: makeEntry({ kind: 'rosc' }) });
+      expect(ack).toMatchObject({ ok: false, status: 401, error: expect.stringMatching(/session has ended/) as unknown });
+      await closed;
+      expect(rows(codeId)).toBe(0);
+    });
+
+    it('closes an idle socket by itself once its session expires, without waiting for a message', async () => {
+      const own = await signIn(app, 'rec.live');
+      const socket = live(own);
+      await connected(socket);
+      const closed = new Promise<void>((resolve) => socket.once('disconnect', () => resolve()));
+      expireIdle(own);
+      await closed;
+      expect(socket.connected).toBe(false);
+    });
+
+    it('refuses a tap after the absolute timeout, however active the session was', async () => {
+      const codeId = await startCode();
+      const own = await signIn(app, 'rec.live');
+      const socket = live(own);
+      await connected(socket);
+      // Signed in longer ago than the absolute timeout, though active a moment ago.
+      app.database.sqlite
+        .prepare("UPDATE sessions SET data = json_set(data, '$.signedInAt', ?) WHERE sid = ?")
+        .run(Date.now() - app.config.sessionAbsoluteMs - 60_000, sidOf(own));
+      expect(await socket.emitWithAck('entry:add', { codeId, entry: makeEntry({ kind: 'rosc' }) })).toMatchObject({ ok: false, status: 401 });
+      expect(rows(codeId)).toBe(0);
+    });
+
+    it('takes a tap as activity: it pushes the idle timeout forward like a request', async () => {
+      const codeId = await startCode();
+      const own = await signIn(app, 'rec.live');
+      const socket = live(own);
+      await connected(socket);
+      const soon = Date.now() + 60_000;
+      app.database.sqlite.prepare('UPDATE sessions SET expires_at = ? WHERE sid = ?').run(soon, sidOf(own));
+      expect(await socket.emitWithAck('entry:add', { codeId, entry: makeEntry({ kind: 'rosc' }) })).toMatchObject({ ok: true });
+      const after = app.database.sqlite.prepare('SELECT expires_at FROM sessions WHERE sid = ?').pluck().get(sidOf(own)) as number;
+      expect(after).toBeGreaterThan(soon);
+      expect(after).toBeGreaterThanOrEqual(Date.now() + app.config.sessionIdleMs - 60_000);
+    });
+  });
 });

@@ -46,7 +46,7 @@ describe('pharmacy: trays, worklist, reconciliation, sign-off, restock list', ()
   let older: string;
   let newer: string;
 
-  const send = (who: SignedInAgent, method: 'post' | 'put', url: string, body: object) => who.agent[method](url).set('x-csrf-token', who.csrf).send(body);
+  const send = (who: SignedInAgent, method: 'post' | 'put' | 'patch', url: string, body: object) => who.agent[method](url).set('x-csrf-token', who.csrf).send(body);
   const view = (res: Response) => res.body as ReconciliationView;
   const row = (v: ReconciliationView, key: string) => v.rows.find((r) => r.drugKey === key);
   // Expiry dates relative to today (UTC, as the server reads them), away from the 30-day edge.
@@ -197,11 +197,12 @@ describe('pharmacy: trays, worklist, reconciliation, sign-off, restock list', ()
     await send(recorder, 'put', `/api/codes/${older}/reconciliation`, { lines: [] }).expect(403);
   });
 
-  it('lets the recorder and leader of the code read it, not a recorder who was not there', async () => {
-    await send(leader, 'post', `/api/codes/${older}/addenda`, makeEntry({ kind: 'note', text: 'leader was here' })).expect(201);
+  it('lets the recorder of the code read it, never a recorder who only wrote an addendum afterwards', async () => {
     expect(view(await recorder.agent.get(`/api/codes/${older}/reconciliation`).expect(200)).counts.discrepancies).toBe(2);
-    await leader.agent.get(`/api/codes/${older}/reconciliation`).expect(200);
+    // A recorder who was not there, writing an addendum to the signed record, is still not part of it.
+    await send(bystander, 'post', `/api/codes/${older}/addenda`, makeEntry({ kind: 'note', text: 'I was here' })).expect(201);
     await bystander.agent.get(`/api/codes/${older}/reconciliation`).expect(403);
+
   });
 
   it('writes the restock list as CSV with the documented columns and as a printable PDF', async () => {
@@ -294,5 +295,19 @@ describe('pharmacy: trays, worklist, reconciliation, sign-off, restock list', ()
   it('refuses to reconcile a code that is still running', async () => {
     const res = await send(recorder, 'post', '/api/codes', { category: 'adult' }).expect(201);
     await send(pharmacist, 'put', `/api/codes/${(res.body as { code: { id: string } }).code.id}/reconciliation`, { lines: [] }).expect(409);
+  });
+
+  it('counts as part of a code those who recorded during it or are on its team, never one who wrote after it ended', async () => {
+    const started = await send(recorder, 'post', '/api/codes', { category: 'adult', location: '4 West Medical, bed 3' }).expect(201);
+    const id = (started.body as { code: { id: string } }).code.id;
+    await send(leader, 'post', `/api/codes/${id}/entries`, makeEntry({ kind: 'drug', drug: 'epinephrine', dose: 1, unit: 'mg', route: 'iv' })).expect(201);
+    await send(recorder, 'post', `/api/codes/${id}/entries`, makeEntry({ kind: 'end', outcome: 'died' })).expect(201);
+    // One note after the end, on a record not signed yet: still not part of the code.
+    await send(bystander, 'post', `/api/codes/${id}/entries`, makeEntry({ kind: 'note', text: 'Was I there?' })).expect(201);
+    await bystander.agent.get(`/api/codes/${id}/reconciliation`).expect(403);
+    await leader.agent.get(`/api/codes/${id}/reconciliation`).expect(200);
+    // Named on the team at review (by display name), they are.
+    await send(recorder, 'patch', `/api/codes/${id}/review`, { team: [{ name: 'Test other.rec', role: 'Compressions' }] }).expect(200);
+    await bystander.agent.get(`/api/codes/${id}/reconciliation`).expect(200);
   });
 });

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { textSchema } from './text.js';
 import { newPasswordSchema, publicUserSchema, usernameSchema } from './auth.js';
 import { roleSchema } from './roles.js';
 
@@ -27,12 +28,10 @@ export const loginResponseSchema = z.object({
 });
 export type LoginResponse = z.infer<typeof loginResponseSchema>;
 
-export const totpCodeSchema = z
-  .string()
+export const totpCodeSchema = textSchema()
   .trim()
   .regex(/^\d{6}$/, 'Enter the 6 digits from your authenticator app');
-export const recoveryCodeSchema = z
-  .string()
+export const recoveryCodeSchema = textSchema()
   .trim()
   .min(8, 'Recovery codes look like abcd-efgh-ijkl')
   .max(40, 'That is too long for a recovery code');
@@ -65,7 +64,7 @@ export const RECOVERY_CODE_COUNT = 10;
 
 export const changePasswordSchema = z
   .object({
-    currentPassword: z.string().min(1, 'Enter your current password').max(256),
+    currentPassword: textSchema().min(1, 'Enter your current password').max(256),
     newPassword: newPasswordSchema,
   })
   .strict();
@@ -86,7 +85,7 @@ export interface SessionInfo {
 
 // ---- people ---------------------------------------------------------------------------------
 
-const displayNameSchema = z.string().trim().min(1, 'Enter a name').max(120, 'Name is too long');
+const displayNameSchema = textSchema().trim().min(1, 'Enter a name').max(120, 'Name is too long');
 const rolesSchema = z.array(roleSchema).max(5);
 
 export const createUserSchema = z
@@ -117,7 +116,7 @@ export interface AdminUser {
 
 // ---- places ---------------------------------------------------------------------------------
 
-const placeNameSchema = z.string().trim().min(1, 'Enter a name').max(120, 'Name is too long');
+const placeNameSchema = textSchema().trim().min(1, 'Enter a name').max(120, 'Name is too long');
 export const facilitySchema = z.object({ name: placeNameSchema }).strict();
 export const placeNameInputSchema = z.object({ name: placeNameSchema }).strict();
 export const unitPatchSchema = z
@@ -151,9 +150,9 @@ export const AUDIT_PAGE_SIZE = 50;
 
 export const auditQuerySchema = z.object({
   /** A user id or a username (failed sign-ins carry only the name typed). */
-  person: z.string().trim().max(64).optional(),
-  codeId: z.string().trim().max(64).optional(),
-  action: z.string().trim().max(64).optional(),
+  person: textSchema().trim().max(64).optional(),
+  codeId: textSchema().trim().max(64).optional(),
+  action: textSchema().trim().max(64).optional(),
   /** Inclusive, ISO date (day) or date-time. */
   from: z.union([z.iso.date(), z.iso.datetime({ offset: true })]).optional(),
   /** Inclusive when a day; exclusive when a date-time. */

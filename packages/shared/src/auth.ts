@@ -1,29 +1,28 @@
 import { z } from 'zod';
+import { textSchema } from './text.js';
 import { roleSchema } from './roles.js';
 
 export const loginRequestSchema = z.object({
-  username: z.string().trim().min(1, 'Enter your username').max(64, 'Username is too long'),
-  password: z.string().min(1, 'Enter your password').max(256, 'Password is too long'),
+  username: textSchema().trim().min(1, 'Enter your username').max(64, 'Username is too long'),
+  password: textSchema().min(1, 'Enter your password').max(256, 'Password is too long'),
 });
 export type LoginRequest = z.infer<typeof loginRequestSchema>;
 
 export const publicUserSchema = z.object({
-  id: z.string(),
-  username: z.string(),
-  displayName: z.string(),
+  id: textSchema(),
+  username: textSchema(),
+  displayName: textSchema(),
   roles: z.array(roleSchema),
 });
 export type PublicUser = z.infer<typeof publicUserSchema>;
 
 export const MIN_PASSWORD_LENGTH = 12;
 /** New passwords: length only, no composition rules (checked against a common-password list on the server). */
-export const newPasswordSchema = z
-  .string()
+export const newPasswordSchema = textSchema()
   .min(MIN_PASSWORD_LENGTH, `Use at least ${MIN_PASSWORD_LENGTH} characters`)
   .max(256, 'Password is too long');
 
-export const usernameSchema = z
-  .string()
+export const usernameSchema = textSchema()
   .trim()
   .min(2, 'Username needs at least 2 characters')
   .max(64, 'Username is too long')

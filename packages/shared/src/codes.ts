@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { textSchema } from './text.js';
 import { OUTCOMES } from './entries.js';
 
 export const CODE_CATEGORIES = ['adult', 'pediatric'] as const;
@@ -7,8 +8,8 @@ export const CODE_STATUSES = ['active', 'ended'] as const;
 export type CodeStatus = (typeof CODE_STATUSES)[number];
 
 export const patientSchema = z.object({
-  name: z.string().trim().max(120).optional(),
-  mrn: z.string().trim().max(40).optional(),
+  name: textSchema().trim().max(120).optional(),
+  mrn: textSchema().trim().max(40).optional(),
   birthDate: z.iso.date().optional(),
   sex: z.enum(['female', 'male', 'unknown']).optional(),
 });
@@ -20,8 +21,8 @@ export type WeightSource = (typeof WEIGHT_SOURCES)[number];
 
 export const createCodeSchema = z
   .object({
-    location: z.string().trim().max(120).optional(),
-    unitId: z.string().max(64).optional(),
+    location: textSchema().trim().max(120).optional(),
+    unitId: textSchema().max(64).optional(),
     patient: patientSchema.optional(),
     category: z.enum(CODE_CATEGORIES).default('adult'),
     weightKg: z.number().positive('weightKg must be above 0').max(250, 'weightKg above 250 is not plausible').optional(),
@@ -34,23 +35,23 @@ export const createCodeSchema = z
 export type CreateCodeRequest = z.input<typeof createCodeSchema>;
 
 export const codeSchema = z.object({
-  id: z.string(),
+  id: textSchema(),
   status: z.enum(CODE_STATUSES),
   category: z.enum(CODE_CATEGORIES),
   weightKg: z.number().nullable(),
-  location: z.string().nullable(),
-  unitId: z.string().nullable(),
+  location: textSchema().nullable(),
+  unitId: textSchema().nullable(),
   patient: patientSchema.nullable(),
-  arrestAt: z.string(),
-  createdAt: z.string(),
-  createdBy: z.string(),
-  endedAt: z.string().nullable(),
+  arrestAt: textSchema(),
+  createdAt: textSchema(),
+  createdBy: textSchema(),
+  endedAt: textSchema().nullable(),
   outcome: z.enum(OUTCOMES).nullable(),
   weightSource: z.enum(WEIGHT_SOURCES).nullable().default(null),
   /** The protocol version in force when the code started: its timers, doses and record use it. */
   protocolVersion: z.number().int().positive().nullable().default(null),
   /** When adult/child was last switched during the code (doses and energies were recalculated). */
-  categoryChangedAt: z.string().nullable().default(null),
+  categoryChangedAt: textSchema().nullable().default(null),
 });
 export type Code = z.infer<typeof codeSchema>;
 
@@ -66,8 +67,8 @@ export const listCodesQuerySchema = z.object({
 /** Details completed during or after the code: where, who, a pediatric weight, and when the arrest was recognised. */
 export const updateCodeSchema = z
   .object({
-    location: z.string().trim().max(120).nullable().optional(),
-    unitId: z.string().max(64).nullable().optional(),
+    location: textSchema().trim().max(120).nullable().optional(),
+    unitId: textSchema().max(64).nullable().optional(),
     patient: patientSchema.nullable().optional(),
     category: z.enum(CODE_CATEGORIES).optional(),
     weightKg: z.number().positive('weightKg must be above 0').max(250, 'weightKg above 250 is not plausible').nullable().optional(),

@@ -1,5 +1,5 @@
 import type { NewEntry, StoredEntryFields, EntryKind } from './entries.js';
-import { entrySchemaByKind, UNAMENDABLE_FIELDS } from './entries.js';
+import { AMENDABLE_FIELDS, entrySchemaByKind, unamendableReason } from './entries.js';
 
 /**
  * An entry as a screen knows it: stored ones carry the server's fields; an entry still in a
@@ -52,14 +52,21 @@ function compareWriteOrder(a: LogEntry, b: LogEntry): number {
 
 /**
  * Applies an amendment's changes to an entry and checks the result is still a valid entry of
- * the same kind. Returns the amended entry, or an error message.
+ * the same kind. Only the kind's own clinical fields and `at` may change: who wrote an entry,
+ * when the server stored it and whether it was an addendum are the server's, never a correction's.
+ * Returns the amended entry, or an error message.
  */
 export function amendEntry(
   target: ClinicalEntry,
   changes: Record<string, unknown>,
 ): { ok: true; entry: ClinicalEntry } | { ok: false; error: string } {
-  for (const field of UNAMENDABLE_FIELDS) {
-    if (field in changes) return { ok: false, error: `${field} cannot be amended` };
+  const allowed = AMENDABLE_FIELDS[target.kind];
+  for (const field of Object.keys(changes)) {
+    const why = unamendableReason(field);
+    if (why) return { ok: false, error: why };
+    if (!allowed.includes(field)) {
+      return { ok: false, error: `${field} is not a field of a ${target.kind} entry (it has ${allowed.join(', ')})` };
+    }
   }
   const merged = { ...target, ...changes };
   const schema = entrySchemaByKind[target.kind];
@@ -70,6 +77,19 @@ export function amendEntry(
   }
   // Keep the server's fields (cursor, recordedAt...) that the schema strips.
   return { ok: true, entry: { ...merged, ...(parsed.data as object) } };
+}
+
+/**
+ * The fields of `changes` that hold what the entry says already (times compared as instants): an
+ * amendment of those would print "was X, now X".
+ */
+export function unchangedFields(current: ClinicalEntry, changes: Record<string, unknown>): string[] {
+  const now = current as Record<string, unknown>;
+  return Object.keys(changes).filter((field) => {
+    const next = changes[field];
+    if (field === 'at') return typeof next === 'string' && Date.parse(next) === Date.parse(current.at);
+    return JSON.stringify(next) === JSON.stringify(now[field]);
+  });
 }
 
 /**

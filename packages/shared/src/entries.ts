@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { textSchema } from './text.js';
 
 /**
  * The entry log. A code is an append-only list of these; everything else is computed from it.
@@ -46,22 +47,18 @@ export const END_OUTCOME_CHOICES = ['rosc', 'died', 'transferred', 'other'] as c
 
 const isoTime = z.iso.datetime({ offset: true, message: 'must be an ISO 8601 date-time, e.g. 2026-03-04T07:42:10.000Z' });
 
-/** Text must be well-formed Unicode: a lone surrogate cannot be canonicalised, hashed or printed. */
-const LONE_SURROGATE = /\p{Cs}/u;
-const wellFormed = (s: string) => !LONE_SURROGATE.test(s);
-
 /** Fields every entry carries, as sent by a device. */
 const entryBaseShape = {
   id: z.uuid({ message: 'id must be a UUID made on the device' }),
   at: isoTime,
-  deviceId: z.string().trim().min(1).max(64).refine(wellFormed, 'must be well-formed text').optional(),
+  deviceId: textSchema().trim().min(1).max(64).optional(),
   seq: z.number().int().nonnegative().optional(),
   offsetMs: z.number().finite().optional(),
   /** Half the round trip of the clock sample used: how far off `at` may be. */
   offsetUncertaintyMs: z.number().finite().nonnegative().optional(),
 };
 
-const shortText = (max: number) => z.string().trim().min(1).max(max).refine(wellFormed, 'must be well-formed text (a lone surrogate was found)');
+const shortText = (max: number) => textSchema().trim().min(1).max(max);
 
 export const cprEntrySchema = z.object({
   ...entryBaseShape,
@@ -135,8 +132,19 @@ export const amendEntrySchema = z.object({
   ...entryBaseShape,
   kind: z.literal('amend'),
   target: z.uuid(),
-  /** Kind-specific fields of the target (and/or `at`), validated against the target's kind when applied. */
-  changes: z.record(z.string(), z.unknown()).refine((c) => Object.keys(c).length > 0, 'changes is empty'),
+  /**
+   * Kind-specific fields of the target (and/or `at`), validated against the target's kind when
+   * applied. Fields the server or the device set are refused here, whatever the target.
+   */
+  changes: z
+    .record(textSchema().max(64), z.unknown())
+    .refine((c) => Object.keys(c).length > 0, 'changes is empty')
+    .superRefine((changes, ctx) => {
+      for (const field of Object.keys(changes)) {
+        const why = unamendableReason(field);
+        if (why) ctx.addIssue({ code: 'custom', path: [field], message: why });
+      }
+    }),
   reason: shortText(500),
 });
 
@@ -180,17 +188,48 @@ export const entrySchemaByKind = {
 
 /** Fields the server adds when it stores an entry. */
 export const storedEntryFieldsSchema = z.object({
-  codeId: z.string(),
-  userId: z.string(),
+  codeId: textSchema(),
+  userId: textSchema(),
+  /**
+   * The writer's display name when the entry was stored, so a later rename never changes who a
+   * record says wrote it (absent on entries stored before names were kept with them).
+   */
+  userName: textSchema().optional(),
   /** Server-assigned, strictly increasing across the whole database: the sync cursor. */
   cursor: z.number().int().positive(),
-  receivedAt: z.string(),
-  recordedAt: z.string(),
+  receivedAt: textSchema(),
+  recordedAt: textSchema(),
   /** True when added after the record's first signature. */
   addendum: z.boolean(),
 });
 export type StoredEntryFields = z.infer<typeof storedEntryFieldsSchema>;
 export type StoredEntry = NewEntry & StoredEntryFields;
 
-/** Fields an amendment may not change. */
-export const UNAMENDABLE_FIELDS = ['id', 'kind', 'deviceId', 'seq', 'offsetMs', 'offsetUncertaintyMs', 'target'] as const;
+/** Fields the server sets when it stores an entry: never sent by a device, never amended. */
+export const SERVER_ENTRY_FIELDS = ['codeId', 'userId', 'userName', 'cursor', 'receivedAt', 'recordedAt', 'addendum'] as const;
+/** Fields the device sets at the tap: they say where an entry came from, so they never change. */
+export const DEVICE_ENTRY_FIELDS = ['id', 'kind', 'deviceId', 'seq', 'offsetMs', 'offsetUncertaintyMs'] as const;
+
+/** Fields an amendment may not change, whatever the target. */
+export const UNAMENDABLE_FIELDS = [...DEVICE_ENTRY_FIELDS, 'target', ...SERVER_ENTRY_FIELDS] as const;
+
+/** Why a field cannot be amended, or undefined when it may be (for some kind). */
+export function unamendableReason(field: string): string | undefined {
+  if ((SERVER_ENTRY_FIELDS as readonly string[]).includes(field)) return `${field} is set by the server and cannot be amended`;
+  if ((DEVICE_ENTRY_FIELDS as readonly string[]).includes(field)) return `${field} is set by the device at the tap and cannot be amended`;
+  if (field === 'target') return 'target cannot be amended';
+  return undefined;
+}
+
+export type AmendableKind = Exclude<EntryKind, 'void' | 'amend'>;
+
+/**
+ * The fields an amendment may change on an entry of each kind: its own clinical fields and the
+ * time it happened (`at`). Read from the kind's schema, so a new field is amendable at once.
+ */
+export const AMENDABLE_FIELDS = Object.fromEntries(
+  ENTRY_KINDS.filter((k): k is AmendableKind => k !== 'void' && k !== 'amend').map((kind) => [
+    kind,
+    ['at', ...Object.keys(entrySchemaByKind[kind].shape).filter((f) => !(UNAMENDABLE_FIELDS as readonly string[]).includes(f) && f !== 'at')],
+  ]),
+) as unknown as Record<AmendableKind, readonly string[]>;

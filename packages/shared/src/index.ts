@@ -17,3 +17,5 @@ export * from './admin.js';
 export * from './records.js';
 export * from './quality.js';
 export * from './reconciliation.js';
+export * from './text.js';
+export * from './csv.js';

@@ -1,18 +1,19 @@
 import { z } from 'zod';
+import { textSchema } from './text.js';
 import { newEntrySchema, type StoredEntry } from './entries.js';
 
 /** socket.io namespace and event payloads shared by the gateway and every screen. */
 export const LIVE_NAMESPACE = '/live';
 
 export const codeJoinSchema = z.object({
-  codeId: z.string().min(1).max(64),
+  codeId: textSchema().min(1).max(64),
   /** The last cursor this screen has seen; the answer holds everything after it. */
   after: z.number().int().nonnegative().optional(),
 });
 export type CodeJoinRequest = z.infer<typeof codeJoinSchema>;
 
 export const entryAddSchema = z.object({
-  codeId: z.string().min(1).max(64),
+  codeId: textSchema().min(1).max(64),
   entry: newEntrySchema,
 });
 export type EntryAddRequest = z.infer<typeof entryAddSchema>;

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { textSchema } from './text.js';
 import { DOSE_UNITS, DRUG_ROUTES } from './entries.js';
 
 /**
@@ -47,7 +48,7 @@ export const doseScheduleSchema = z
     /** Most in total in one code, per kg of the patient's weight. */
     maxTotalPerKg: z.number().positive().optional(),
     /** Timing in words, e.g. "every 3-5 min". */
-    timing: z.string().max(120).optional(),
+    timing: textSchema().max(120).optional(),
   })
   .refine((s) => s.maxDoses === undefined || s.repeatLast || s.maxDoses <= s.doses.length, {
     message: 'more doses allowed than listed, and the last dose does not repeat',
@@ -60,7 +61,7 @@ export const concentrationBandSchema = z.object({
   /** Amount of the drug's unit per mL. */
   perMl: z.number().positive(),
   /** How the preparation is known on the ward, e.g. "10%" or "0.1 mg/mL (1:10,000)". */
-  label: z.string().min(1).max(60),
+  label: textSchema().min(1).max(60),
   /** Applies to adult codes, pediatric codes, or both. */
   appliesTo: z.enum(['adult', 'pediatric', 'any']).default('any'),
   /** Applies below this age in months, when the age is known. */
@@ -71,8 +72,8 @@ export const concentrationBandSchema = z.object({
 export type ConcentrationBand = z.infer<typeof concentrationBandSchema>;
 
 export const drugDefinitionSchema = z.object({
-  key: z.string().min(1).max(40),
-  label: z.string().min(1).max(60),
+  key: textSchema().min(1).max(40),
+  label: textSchema().min(1).max(60),
   unit: z.enum(DOSE_UNITS),
   route: z.enum(DRUG_ROUTES),
   adult: doseScheduleSchema,
@@ -81,16 +82,16 @@ export const drugDefinitionSchema = z.object({
   /** In order; the first band that fits the patient is shown with the volume. */
   concentrations: z.array(concentrationBandSchema).max(6).default([]),
   /** Drug-specific cautions shown with its doses. */
-  cautions: z.array(z.string().min(1).max(240)).max(6).default([]),
+  cautions: z.array(textSchema().min(1).max(240)).max(6).default([]),
   /** Where the default comes from, with its status (confirmed, secondary, from memory, common practice). */
-  source: z.string().max(600),
+  source: textSchema().max(600),
 });
 export type DrugDefinition = z.infer<typeof drugDefinitionSchema>;
 
 export const protocolSettingsSchema = z
   .object({
     /** Which guideline edition the defaults follow; shown on every reminder surface. */
-    edition: z.string().min(1).max(120),
+    edition: textSchema().min(1).max(120),
     /** Length of one compression cycle between rhythm checks. */
     cprCycleSeconds: z.number().int().min(30).max(600),
     /** Epinephrine is due from `min` after the last dose and overdue after `max`. */
@@ -124,7 +125,7 @@ export const protocolSettingsSchema = z
         /** Shockable rhythm: an antiarrhythmic after this many defibrillations. */
         antiarrhythmicAfterShocks: z.number().int().min(1).max(10),
         /** Catalogue keys that count as the antiarrhythmic. */
-        antiarrhythmicKeys: z.array(z.string().min(1).max(40)).max(4),
+        antiarrhythmicKeys: z.array(textSchema().min(1).max(40)).max(4),
       })
       .default({ epinephrineAfterShocks: 2, antiarrhythmicAfterShocks: 3, antiarrhythmicKeys: ['amiodarone', 'lidocaine'] }),
     /** Capnography cues, information only. */

@@ -6,7 +6,7 @@ import { DEFAULT_PROTOCOL } from './protocol.js';
 import { aggregateQuality, type QualityMetricsRow } from './quality.js';
 import { summarize } from './summary.js';
 import { foldLog } from './timeline.js';
-import { csvField, UTSTEIN_CSV_COLUMNS, utsteinCsv, utsteinRow } from './utstein-csv.js';
+import { UTSTEIN_CSV_COLUMNS, utsteinCsv, utsteinRow } from './utstein-csv.js';
 
 let nextId = 1;
 const uuid = () => `00000000-0000-4000-8000-${(nextId++).toString().padStart(12, '0')}`;
@@ -93,14 +93,6 @@ describe('Utstein CSV', () => {
       patient_sex: 'unknown',
     });
     expect(lines[1]).toContain('"Bed 12, ""window"""');
-  });
-
-  it('escapes commas, quotes and line breaks, and defuses spreadsheet formulas', () => {
-    expect(csvField('plain')).toBe('plain');
-    expect(csvField('a,b')).toBe('"a,b"');
-    expect(csvField('say "hi"\nbye')).toBe('"say ""hi""\nbye"');
-    expect(csvField('=HYPERLINK("x")')).toBe(`"'=HYPERLINK(""x"")"`);
-    expect(csvField('-12')).toBe('-12');
   });
 });
 

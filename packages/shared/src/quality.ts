@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { textSchema } from './text.js';
 import { COMPRESSION_FRACTION_EDGES, histogram, quantileSummary, shareOf, type HistogramBin, type QuantileSummary, type Share } from './aggregate.js';
 import type { CodeCategory } from './codes.js';
 import { OUTCOMES, RHYTHMS, type Outcome, type Rhythm } from './entries.js';
@@ -32,7 +33,7 @@ export const qualityFilterSchema = z
   .object({
     from: day.optional(),
     to: day.optional(),
-    unitId: z.string().trim().min(1).max(64).optional(),
+    unitId: textSchema().trim().min(1).max(64).optional(),
     firstRhythm: z.enum([...RHYTHMS, 'none']).optional(),
     outcome: z.enum(OUTCOMES).optional(),
     /** `any`: at least one target missed; a target id: that target missed. */
@@ -45,7 +46,7 @@ export const qualityListQuerySchema = z
   .object({
     from: day.optional(),
     to: day.optional(),
-    unitId: z.string().trim().min(1).max(64).optional(),
+    unitId: textSchema().trim().min(1).max(64).optional(),
     firstRhythm: z.enum([...RHYTHMS, 'none']).optional(),
     outcome: z.enum(OUTCOMES).optional(),
     missed: z.enum(['any', ...QUALITY_TARGET_IDS]).optional(),
@@ -97,15 +98,15 @@ export interface QualityListResponse {
 
 export const qualityReviewSchema = z
   .object({
-    notes: z.string().max(10000).nullable().optional(),
-    debriefPoints: z.array(z.string().trim().min(1, 'a debrief point cannot be empty').max(500)).max(50).optional(),
+    notes: textSchema().max(10000).nullable().optional(),
+    debriefPoints: z.array(textSchema().trim().min(1, 'a debrief point cannot be empty').max(500)).max(50).optional(),
   })
   .strict()
   .refine((v) => v.notes !== undefined || v.debriefPoints !== undefined, 'Send notes or debriefPoints');
 export type QualityReviewRequest = z.infer<typeof qualityReviewSchema>;
 
 export const qualitySignOffSchema = z
-  .object({ password: z.string().min(1, 'password is required').max(1024) })
+  .object({ password: textSchema().min(1, 'password is required').max(1024) })
   .strict();
 export type QualitySignOffRequest = z.infer<typeof qualitySignOffSchema>;
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { textSchema } from './text.js';
 import { DOSE_UNITS, type DoseUnit } from './entries.js';
 import { resolveDrug } from './drug-catalogue.js';
 import { usualConcentration } from './dosing.js';
@@ -19,9 +20,9 @@ export const TRAY_LOT_MAX = 40;
 export const trayItemInputSchema = z
   .object({
     /** Kept when an existing item is edited, so reconciliation lines keep pointing at it. */
-    id: z.string().min(1).max(64).optional(),
-    drugKey: z.string().trim().toLowerCase().min(1).max(40),
-    label: z.string().trim().min(1).max(80),
+    id: textSchema().min(1).max(64).optional(),
+    drugKey: textSchema().trim().toLowerCase().min(1).max(40),
+    label: textSchema().trim().min(1).max(80),
     /** Amount of drug in one vial, syringe or ampoule. */
     strengthAmount: z.number().positive().max(100_000),
     strengthUnit: z.enum(DOSE_UNITS),
@@ -32,8 +33,7 @@ export const trayItemInputSchema = z
     /** Controlled drugs: waste needs a witness, and they are reconciled first. */
     controlled: z.boolean().default(false),
     /** Lot (batch) number of the units now on the tray; blank is no lot recorded. */
-    lot: z
-      .string({ message: 'must be text, e.g. EP2291' })
+    lot: textSchema({ message: 'must be text, e.g. EP2291' })
       .trim()
       .max(TRAY_LOT_MAX, `must be at most ${TRAY_LOT_MAX} characters`)
       .transform((v) => (v === '' ? null : v))
@@ -47,7 +47,7 @@ export type TrayItemInput = z.input<typeof trayItemInputSchema>;
 
 export const trayTemplateInputSchema = z
   .object({
-    name: z.string().trim().min(1).max(80),
+    name: textSchema().trim().min(1).max(80),
     active: z.boolean().default(true),
     items: z.array(trayItemInputSchema).min(1).max(60),
   })
@@ -115,7 +115,7 @@ export function expiryNote(expiry: string | null | undefined, today: string): Ex
   return expiry <= limit.toISOString().slice(0, 10) ? 'expires within 30 days' : null;
 }
 
-export const unitTrayInputSchema = z.object({ trayId: z.string().min(1).max(64).nullable() }).strict();
+export const unitTrayInputSchema = z.object({ trayId: textSchema().min(1).max(64).nullable() }).strict();
 export type UnitTrayInput = z.infer<typeof unitTrayInputSchema>;
 
 /** "1 mg in 10 mL", "150 mg in 3 mL", "2 g". */
@@ -134,14 +134,14 @@ export function formatAmount(n: number): string {
 
 const lineInputSchema = z
   .object({
-    drugKey: z.string().trim().toLowerCase().min(1).max(40),
-    trayItemId: z.string().min(1).max(64).nullable().default(null),
+    drugKey: textSchema().trim().toLowerCase().min(1).max(40),
+    trayItemId: textSchema().min(1).max(64).nullable().default(null),
     unitsOpened: z.number().int().min(0).max(500),
     /** Whole units discarded with nothing given from them (dropped, drawn up and not used). */
     unitsWasted: z.number().int().min(0).max(500),
-    wasteWitness: z.string().trim().max(120).nullable().default(null),
-    lotNumbers: z.string().trim().max(200).nullable().default(null),
-    note: z.string().trim().max(500).nullable().default(null),
+    wasteWitness: textSchema().trim().max(120).nullable().default(null),
+    lotNumbers: textSchema().trim().max(200).nullable().default(null),
+    note: textSchema().trim().max(500).nullable().default(null),
   })
   .strict()
   .refine((l) => l.unitsWasted <= l.unitsOpened, { message: 'units wasted cannot be more than units opened', path: ['unitsWasted'] });
@@ -150,8 +150,8 @@ export type ReconciliationLineInput = z.output<typeof lineInputSchema>;
 
 export const saveReconciliationSchema = z
   .object({
-    trayId: z.string().min(1).max(64).nullable().optional(),
-    notes: z.string().trim().max(4000).nullable().default(null),
+    trayId: textSchema().min(1).max(64).nullable().optional(),
+    notes: textSchema().trim().max(4000).nullable().default(null),
     lines: z.array(lineInputSchema).max(80),
   })
   .strict()
@@ -164,12 +164,12 @@ export const saveReconciliationSchema = z
   });
 export type SaveReconciliationRequest = z.input<typeof saveReconciliationSchema>;
 
-export const signReconciliationSchema = z.object({ password: z.string().min(1, 'password is required').max(1024) }).strict();
+export const signReconciliationSchema = z.object({ password: textSchema().min(1, 'password is required').max(1024) }).strict();
 export type SignReconciliationRequest = z.infer<typeof signReconciliationSchema>;
 
 export const reconciliationAddendumSchema = z
   .object({
-    text: z.string().trim().min(1, 'say what the addendum is about').max(2000),
+    text: textSchema().trim().min(1, 'say what the addendum is about').max(2000),
     /** Corrected counts for some drugs; they replace the signed line for that drug from now on. */
     lines: z.array(lineInputSchema).max(80).default([]),
   })

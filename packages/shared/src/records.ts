@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { textSchema } from './text.js';
 import { patientSchema, type Code } from './codes.js';
 import { OUTCOMES, type StoredEntry } from './entries.js';
 
@@ -9,8 +10,8 @@ import { OUTCOMES, type StoredEntry } from './entries.js';
 
 export const teamMemberSchema = z
   .object({
-    name: z.string().trim().min(1, 'name is required').max(120),
-    role: z.string().trim().min(1, 'role is required').max(60),
+    name: textSchema().trim().min(1, 'name is required').max(120),
+    role: textSchema().trim().min(1, 'role is required').max(60),
   })
   .strict();
 export type TeamMember = z.infer<typeof teamMemberSchema>;
@@ -19,10 +20,10 @@ export type TeamMember = z.infer<typeof teamMemberSchema>;
 export const reviewDetailsSchema = z
   .object({
     team: z.array(teamMemberSchema).max(40).optional(),
-    debriefNotes: z.string().trim().max(5000).nullable().optional(),
+    debriefNotes: textSchema().trim().max(5000).nullable().optional(),
     outcome: z.enum(OUTCOMES).optional(),
     patient: patientSchema.nullable().optional(),
-    location: z.string().trim().max(120).nullable().optional(),
+    location: textSchema().trim().max(120).nullable().optional(),
   })
   .strict()
   .refine((v) => Object.keys(v).length > 0, 'Send at least one field to change');
@@ -46,7 +47,7 @@ export const SIGNATURE_MEANING_ROLE = {
 export const signRecordSchema = z
   .object({
     meaning: z.enum(SIGNATURE_MEANINGS),
-    password: z.string().min(1, 'password is required').max(1024),
+    password: textSchema().min(1, 'password is required').max(1024),
   })
   .strict();
 export type SignRecordRequest = z.infer<typeof signRecordSchema>;
@@ -117,15 +118,29 @@ export type EntryChainStatus =
   | { valid: true; length: number; head: string | null }
   | { valid: false; length: number; head: string | null; brokenAt: EntryChainBreak };
 
+/**
+ * Every check of a record against tampering, as of now: the entry chain, the server's seal
+ * (entries, signatures, attachments), each signature, each attachment's file, and that entries
+ * stored after the first signature are addenda. `problems` says in words what failed.
+ */
+export interface RecordIntegrity {
+  valid: boolean;
+  problems: string[];
+}
+
 /** `GET /api/codes/:id/record`: the record, its digest now, its signatures and who wrote what. */
 export interface RecordView {
   record: CanonicalRecord;
   digest: string;
   /** The entry chain as checked now (not part of the record, so not covered by its digest). */
   chain: EntryChainStatus;
+  integrity: RecordIntegrity;
   signatures: RecordSignature[];
   status: RecordStatus;
-  /** userId → display name, for everyone who wrote an entry or signed. */
+  /**
+   * userId → display name, for everyone who wrote an entry or signed: the name kept with their
+   * entries when it was (a later rename changes nothing), else their name now.
+   */
   people: Record<string, string>;
 }
 
@@ -139,12 +154,11 @@ export interface RecordListItem {
 /** Verify by digest (and, optionally, the record id printed on the copy). */
 export const verifyRecordSchema = z
   .object({
-    digest: z
-      .string()
+    digest: textSchema()
       .trim()
       .toLowerCase()
       .regex(/^[0-9a-f]{64}$/, 'digest must be 64 hexadecimal characters (SHA-256)'),
-    recordId: z.string().trim().min(1).max(64).optional(),
+    recordId: textSchema().trim().min(1).max(64).optional(),
   })
   .strict();
 export type VerifyRecordRequest = z.infer<typeof verifyRecordSchema>;

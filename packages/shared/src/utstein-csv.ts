@@ -1,4 +1,5 @@
 import type { Code } from './codes.js';
+import { csvCell } from './csv.js';
 import type { CodeSummary } from './summary.js';
 
 /**
@@ -118,18 +119,9 @@ export function utsteinRow(input: UtsteinRowInput): UtsteinRow {
   };
 }
 
-/**
- * RFC 4180 field: quoted when it holds a comma, quote, CR or LF; quotes doubled. A leading
- * =, +, - or @ gets a quote mark first, so a spreadsheet never runs a cell as a formula.
- */
-export function csvField(value: string): string {
-  const safe = /^[=+\-@\t\r]/.test(value) && !/^-?\d/.test(value) ? `'${value}` : value;
-  return /[",\r\n]/.test(safe) ? `"${safe.replace(/"/g, '""')}"` : safe;
-}
-
 /** The whole file: header line, then one line per code, CRLF line ends (RFC 4180). */
 export function utsteinCsv(rows: readonly UtsteinRow[]): string {
   const names = UTSTEIN_CSV_COLUMNS.map((c) => c.name);
-  const lines = [names.join(','), ...rows.map((r) => names.map((n) => csvField(r[n])).join(','))];
+  const lines = [names.join(','), ...rows.map((r) => names.map((n) => csvCell(r[n])).join(','))];
   return lines.join('\r\n') + '\r\n';
 }

@@ -1,5 +1,5 @@
 import { Inject, Injectable } from '@nestjs/common';
-import { AUDIT_PAGE_SIZE, type AuditEvent, type AuditPage, type auditQuerySchema } from '@steadyhand/shared';
+import { AUDIT_PAGE_SIZE, csvCell, type AuditEvent, type AuditPage, type auditQuerySchema } from '@steadyhand/shared';
 import { and, count, desc, eq, gte, like, lt, or, type SQL } from 'drizzle-orm';
 import type { z } from 'zod';
 import { AuditService } from '../audit/audit.service.js';
@@ -20,13 +20,6 @@ function bound(value: string, end: boolean): string {
   const day = new Date(`${value}T00:00:00.000Z`);
   if (end) day.setUTCDate(day.getUTCDate() + 1);
   return day.toISOString();
-}
-
-/** A cell for a spreadsheet: quoted when needed, and never read as a formula (OWASP CSV injection). */
-function csvCell(value: unknown): string {
-  let text = value === null || value === undefined ? '' : typeof value === 'string' ? value : JSON.stringify(value);
-  if (/^[=+\-@\t\r]/.test(text)) text = `'${text}`;
-  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
 
 /** Reads the append-only audit trail: filtered, newest first, a page at a time or as CSV. */

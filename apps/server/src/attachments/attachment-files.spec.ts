@@ -10,6 +10,13 @@ describe('attachment file checks', () => {
     expect(cleanFilename(`${'a'.repeat(300)}.jpeg`).endsWith('.jpeg')).toBe(true);
   });
 
+  it('strips bidirectional controls, so the name shown is the name stored', () => {
+    expect(cleanFilename('strip\u202egnp.pdf')).toBe('stripgnp.pdf');
+    expect(cleanFilename('\u2067scan\u2069\u200f.png\u200e')).toBe('scan.png');
+    expect(cleanFilename('\u061cnote\u202a\u202b\u202c\u202d.jpg\u2066\u2068\u2028\u2029')).toBe('note.jpg');
+    expect(cleanFilename('مراقبة 1.png')).toBe('مراقبة 1.png');
+  });
+
   it('builds a Content-Disposition that no name can break', () => {
     expect(contentDisposition('attachment', 'défib "1".pdf')).toBe(`attachment; filename="d_fib _1_.pdf"; filename*=UTF-8''d%C3%A9fib%20%221%22.pdf`);
     expect(contentDisposition('inline', "it's (1).png")).toBe(`inline; filename="it's (1).png"; filename*=UTF-8''it%27s%20%281%29.png`);

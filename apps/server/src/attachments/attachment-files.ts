@@ -24,13 +24,20 @@ export class AttachmentRefused extends Error {
 }
 
 /**
+ * Bidirectional controls (Unicode UAX #9: ALM, LRM, RLM, the embeddings, overrides and
+ * isolates) and the line and paragraph separators. In a file name they make the shown name
+ * lie: "strip\u202Egnp.pdf" displays as "stripfdp.png".
+ */
+const BIDI_CONTROLS = /[\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069\u2028\u2029]/g;
+
+/**
  * The client's file name made safe to store and to send back in a header: no folders, no
- * control characters, not too long (the extension kept).
+ * control characters, no bidirectional controls, not too long (the extension kept).
  */
 export function cleanFilename(raw: string): string {
   const base = raw.split(/[\\/]/).pop() ?? '';
   // eslint-disable-next-line no-control-regex
-  let name = base.normalize('NFC').replace(/[\u0000-\u001f\u007f-\u009f]/g, '').trim();
+  let name = base.normalize('NFC').replace(/[\u0000-\u001f\u007f-\u009f]/g, '').replace(BIDI_CONTROLS, '').trim();
   if (name.length > 180) {
     const ext = path.extname(name).slice(0, 12);
     name = name.slice(0, 180 - ext.length) + ext;

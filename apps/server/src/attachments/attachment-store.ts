@@ -1,6 +1,6 @@
-import { randomBytes } from 'node:crypto';
+import { createHash, randomBytes } from 'node:crypto';
 import { createReadStream, type ReadStream } from 'node:fs';
-import { mkdir, open, rename, rm, stat } from 'node:fs/promises';
+import { mkdir, open, readFile, rename, rm, stat } from 'node:fs/promises';
 import path from 'node:path';
 import { Inject, Injectable } from '@nestjs/common';
 import { APP_CONFIG } from '../config/config.module.js';
@@ -32,8 +32,9 @@ export class AttachmentStore {
   async put(sha256: string, bytes: Buffer): Promise<{ written: boolean }> {
     const target = this.pathOf(sha256);
     await mkdir(this.dir, { recursive: true, mode: 0o700 });
-    const existing = await stat(target).catch(() => undefined);
-    if (existing?.isFile() && existing.size === bytes.length) return { written: false };
+    // Kept only when it still holds these bytes: a file changed on disk is written again.
+    const existing = await readFile(target).catch(() => undefined);
+    if (existing && createHash('sha256').update(existing).digest('hex') === sha256) return { written: false };
     const temp = path.join(this.dir, `.${sha256}.${randomBytes(6).toString('hex')}.tmp`);
     try {
       const file = await open(temp, 'wx', 0o600);
@@ -58,5 +59,15 @@ export class AttachmentStore {
 
   read(sha256: string): ReadStream {
     return createReadStream(this.pathOf(sha256));
+  }
+
+  /** The whole file (attachments are capped at ATTACHMENT_MAX_MB), or undefined when it is missing. */
+  async readAll(sha256: string): Promise<Buffer | undefined> {
+    try {
+      return await readFile(this.pathOf(sha256));
+    } catch (err) {
+      if ((err as NodeJS.ErrnoException).code === 'ENOENT') return undefined;
+      throw err;
+    }
   }
 }

@@ -1,6 +1,7 @@
 import { createHash, randomUUID } from 'node:crypto';
 import {
   BadRequestException,
+  ConflictException,
   Inject,
   Injectable,
   Logger,
@@ -11,6 +12,8 @@ import {
 import { AuditService } from '../audit/audit.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { CodesService } from '../codes/codes.service.js';
+import { RecordSealService } from '../codes/record-seal.service.js';
+import { sha256Hex } from '../common/canonical-json.js';
 import { AttachmentRefused, ATTACHMENT_TYPES, cleanFilename, contentDisposition, detectAttachmentType, isAttachmentMediaType } from './attachment-files.js';
 import { AttachmentStore } from './attachment-store.js';
 import { AttachmentsRepository, type Attachment } from './attachments.repository.js';
@@ -24,6 +27,7 @@ export class AttachmentsService {
     @Inject(AttachmentsRepository) private readonly repo: AttachmentsRepository,
     @Inject(AttachmentStore) private readonly store: AttachmentStore,
     @Inject(CodesService) private readonly codes: CodesService,
+    @Inject(RecordSealService) private readonly seals: RecordSealService,
     @Inject(AuditService) private readonly audit: AuditService,
   ) {}
 
@@ -52,7 +56,7 @@ export class AttachmentsService {
     }
     const sha256 = createHash('sha256').update(file.buffer).digest('hex');
     await this.store.put(sha256, file.buffer);
-    const result = this.repo.insertUnlessPresent({
+    const result = this.seals.sealedWrite(codeId, 'attachments', () => this.repo.insertUnlessPresent({
       id: randomUUID(),
       codeId,
       sha256,
@@ -61,7 +65,7 @@ export class AttachmentsService {
       sizeBytes: file.size,
       uploadedBy: user.id,
       uploadedAt: new Date().toISOString(),
-    });
+    }));
     if (result.created) {
       const { id, filename: storedName, sizeBytes } = result.attachment;
       this.audit.record({
@@ -80,20 +84,43 @@ export class AttachmentsService {
     return this.repo.listByCode(codeId);
   }
 
-  /** The stored bytes with their type: images shown in the page, PDFs downloaded. */
+  /**
+   * The stored bytes with their type: images shown in the page, PDFs downloaded. Hashed again
+   * before they are served: a file changed on disk is refused (409), never passed off as the
+   * one the record lists.
+   */
   async content(id: string): Promise<StreamableFile> {
     const attachment = this.repo.find(id);
     if (!attachment) throw new NotFoundException(`No attachment with id ${id}`);
-    const size = await this.store.size(attachment.sha256);
-    if (size === undefined) {
+    const bytes = await this.store.readAll(attachment.sha256);
+    if (bytes === undefined) {
       this.logger.error(`The file of attachment ${id} (${attachment.sha256}) is missing from ${this.store.dir}`);
       throw new NotFoundException(`The file of attachment ${id} is missing from the store`);
     }
+    if (sha256Hex(bytes) !== attachment.sha256) {
+      this.logger.error(`The file of attachment ${id} no longer matches its SHA-256 ${attachment.sha256}`);
+      throw new ConflictException({
+        statusCode: 409,
+        error: 'attachment-changed',
+        message: `The file of ${attachment.filename} no longer matches the SHA-256 the record lists for it: it was changed on the server's disk. It is not served.`,
+      });
+    }
     const inline = isAttachmentMediaType(attachment.mediaType) && ATTACHMENT_TYPES[attachment.mediaType].inline;
-    return new StreamableFile(this.store.read(attachment.sha256), {
+    return new StreamableFile(bytes, {
       type: attachment.mediaType,
-      length: size,
+      length: bytes.length,
       disposition: contentDisposition(inline ? 'inline' : 'attachment', attachment.filename),
     });
+  }
+
+  /** Each attachment of a code whose file is missing or no longer has its listed SHA-256, in words. */
+  async fileProblems(codeId: string): Promise<string[]> {
+    const problems: string[] = [];
+    for (const a of this.repo.listByCode(codeId)) {
+      const bytes = await this.store.readAll(a.sha256);
+      if (bytes === undefined) problems.push(`The file of attachment ${a.filename} (${a.id}) is missing from the server's disk.`);
+      else if (sha256Hex(bytes) !== a.sha256) problems.push(`The file of attachment ${a.filename} (${a.id}) no longer matches its SHA-256: it was changed on the server's disk.`);
+    }
+    return problems;
   }
 }

@@ -1,6 +1,7 @@
 import { createParamDecorator, SetMetadata, type ExecutionContext } from '@nestjs/common';
 import type { Role } from '@steadyhand/shared';
 import type { Request } from 'express';
+import { attemptOf, type PasswordAttempt } from './login-throttle.service.js';
 import type { SessionUser } from './session-user.js';
 
 export const IS_PUBLIC = 'steadyhand:public';
@@ -25,3 +26,6 @@ export const CurrentUser = createParamDecorator((_data: unknown, ctx: ExecutionC
   const req = ctx.switchToHttp().getRequest<Request>();
   return req.user as SessionUser;
 });
+
+/** Where a password attempt comes from (client address, device cookie), for the throttle. */
+export const Attempt = createParamDecorator((_data: unknown, ctx: ExecutionContext): PasswordAttempt => attemptOf(ctx.switchToHttp().getRequest<Request>()));

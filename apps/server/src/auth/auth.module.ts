@@ -8,6 +8,7 @@ import { AuthPassportService } from './auth-passport.service.js';
 import { AuthController } from './auth.controller.js';
 import { AuthService } from './auth.service.js';
 import { LoginThrottleService } from './login-throttle.service.js';
+import { PasswordCheckService } from './password-check.service.js';
 import { SessionDirectoryService } from './session-directory.service.js';
 import { SessionService } from './session.service.js';
 import { TotpService } from './totp.service.js';
@@ -19,12 +20,13 @@ import { TotpService } from './totp.service.js';
     AuthService,
     AuthPassportService,
     LoginThrottleService,
+    PasswordCheckService,
     SessionService,
     TotpService,
     AccountService,
     SessionDirectoryService,
     { provide: APP_GUARD, useClass: AccessGuard },
   ],
-  exports: [SessionService, AuthPassportService, TotpService, SessionDirectoryService],
+  exports: [SessionService, AuthPassportService, TotpService, SessionDirectoryService, PasswordCheckService],
 })
 export class AuthModule {}

@@ -1,11 +1,13 @@
-import { BadRequestException, HttpException, HttpStatus, Inject, Injectable, UnauthorizedException } from '@nestjs/common';
+import { BadRequestException, Inject, Injectable, UnauthorizedException } from '@nestjs/common';
 import type { LoginRequest, LoginResponse, MeUser, PublicUser, SecondFactorRequest } from '@steadyhand/shared';
 import type { NextFunction, Request, RequestHandler, Response } from 'express';
 import { AuditService } from '../audit/audit.service.js';
+import { APP_CONFIG } from '../config/config.module.js';
+import type { AppConfig } from '../config/config.js';
 import { toPublicUser } from '../users/users.service.js';
 import { AuthPassportService } from './auth-passport.service.js';
 import { ensureCsrfToken } from './csrf.js';
-import { LoginThrottleService } from './login-throttle.service.js';
+import { attemptOf, DEVICE_COOKIE, LoginThrottleService } from './login-throttle.service.js';
 import { SessionService } from './session.service.js';
 import type { SessionUser } from './session-user.js';
 import { TotpService } from './totp.service.js';
@@ -17,8 +19,6 @@ const SECOND_FACTOR_WAIT_MS = 5 * 60 * 1000;
 const promised = (fn: (cb: (err?: unknown) => void) => void) =>
   new Promise<void>((resolve, reject) => fn((err) => (err ? reject(err instanceof Error ? err : new Error('session store failed')) : resolve())));
 
-export const THROTTLED_MESSAGE = 'Too many sign-in attempts. Wait a while and try again.';
-
 @Injectable()
 export class AuthService {
   constructor(
@@ -28,6 +28,7 @@ export class AuthService {
     @Inject(AuditService) private readonly audit: AuditService,
     @Inject(TotpService) private readonly totp: TotpService,
     @Inject(UsersService) private readonly users: UsersService,
+    @Inject(APP_CONFIG) private readonly config: AppConfig,
   ) {}
 
   /**
@@ -35,11 +36,8 @@ export class AuthService {
    * a second factor set up, the new session is only half signed in until POST /api/auth/totp.
    */
   async login(req: Request, res: Response, body: LoginRequest): Promise<LoginResponse> {
-    const retryAfter = this.throttle.retryAfterSeconds(body.username);
-    if (retryAfter > 0) {
-      res.setHeader('Retry-After', String(retryAfter));
-      throw new HttpException(THROTTLED_MESSAGE, HttpStatus.TOO_MANY_REQUESTS);
-    }
+    const attempt = attemptOf(req);
+    this.throttle.assertMayTry(body.username, attempt);
     req.body = body; // passport-local reads username and password from the (validated) body
     const user = await new Promise<SessionUser | false>((resolve, reject) => {
       const fail = (err: unknown) => reject(err instanceof Error ? err : new Error(String(err)));
@@ -56,7 +54,14 @@ export class AuthService {
       this.audit.record({ action: 'auth.login-failed', username: body.username.slice(0, 64), ip: req.ip });
       throw new UnauthorizedException('Wrong username or password');
     }
-    this.throttle.clear(body.username);
+    const deviceId = this.throttle.succeeded(body.username, attempt);
+    res.cookie(DEVICE_COOKIE, deviceId, {
+      httpOnly: true,
+      sameSite: 'strict',
+      secure: this.config.secureCookies,
+      path: '/api',
+      maxAge: this.throttle.deviceCookieMaxAgeMs,
+    });
     if (this.totp.isEnabled(user.id)) {
       // Nobody is signed in on this session yet: no route and no live socket sees a user.
       await promised((cb) => req.session.regenerate(cb));

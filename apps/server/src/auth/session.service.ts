@@ -28,14 +28,16 @@ export class SessionService implements OnModuleDestroy {
     @Inject(APP_CONFIG) private readonly config: AppConfig,
     @Inject(DB) db: Db,
   ) {
-    this.store = new SqliteSessionStore(db, config.sessionIdleMs);
+    this.store = new SqliteSessionStore(db, config.sessionIdleMs, config.sessionAbsoluteMs);
     this.middleware = session({
       name: config.secureCookies ? SECURE_SESSION_COOKIE : SESSION_COOKIE,
       secret: config.sessionSecret,
       store: this.store,
       resave: false,
       saveUninitialized: false,
-      // Idle timeout: every request pushes the expiry forward by the idle period.
+      // The idle timeout is the store's (server side): every request pushes it forward, and so
+      // does a tap on the live socket, which cannot refresh a cookie. The cookie itself lasts
+      // as long as the absolute timeout.
       rolling: true,
       proxy: config.trustProxy,
       cookie: {
@@ -43,7 +45,7 @@ export class SessionService implements OnModuleDestroy {
         sameSite: 'lax',
         secure: config.secureCookies,
         path: '/',
-        maxAge: config.sessionIdleMs,
+        maxAge: config.sessionAbsoluteMs,
       },
     });
     this.pruneTimer = setInterval(() => this.store.prune(), 10 * 60 * 1000);

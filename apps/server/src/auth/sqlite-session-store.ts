@@ -1,5 +1,5 @@
 import session from 'express-session';
-import { and, eq, lt, ne } from 'drizzle-orm';
+import { and, eq, gt, lt, ne, sql } from 'drizzle-orm';
 import type { Db } from '../db/database.js';
 import { sessions } from '../db/schema/index.js';
 
@@ -12,14 +12,30 @@ type Callback = (err?: unknown) => void;
 export class SqliteSessionStore extends session.Store {
   constructor(
     private readonly db: Db,
-    private readonly defaultTtlMs: number,
+    /** The idle timeout, kept here on the server: every request (and every tap on the socket) pushes it forward. */
+    private readonly idleMs: number,
+    /** The absolute timeout, from sign-in. */
+    private readonly absoluteMs: number,
   ) {
     super();
+    // Prepared once: the live socket asks on every tap.
+    this.liveQuery = db
+      .select({ data: sessions.data, userId: sessions.userId, expiresAt: sessions.expiresAt })
+      .from(sessions)
+      .where(eq(sessions.sid, sql.placeholder('sid')))
+      .prepare();
+    this.touchQuery = db
+      .update(sessions)
+      .set({ expiresAt: sql`${sql.placeholder('expiresAt')}`, lastSeenAt: sql`${sql.placeholder('now')}` })
+      .where(and(eq(sessions.sid, sql.placeholder('sid')), gt(sessions.expiresAt, sql.placeholder('now'))))
+      .prepare();
   }
 
-  private expiresAt(sess: session.SessionData): number {
-    const expires = sess.cookie.expires;
-    return expires ? new Date(expires).getTime() : Date.now() + this.defaultTtlMs;
+  private readonly liveQuery;
+  private readonly touchQuery;
+
+  private expiresAt(): number {
+    return Date.now() + this.idleMs;
   }
 
   override get(sid: string, cb: (err: unknown, session?: session.SessionData | null) => void): void {
@@ -38,7 +54,7 @@ export class SqliteSessionStore extends session.Store {
       const values = {
         data: JSON.stringify(sess),
         userId: sess.passport?.user ?? null,
-        expiresAt: this.expiresAt(sess),
+        expiresAt: this.expiresAt(),
         lastSeenAt: now,
       };
       this.db
@@ -52,11 +68,11 @@ export class SqliteSessionStore extends session.Store {
     }
   }
 
-  override touch(sid: string, sess: session.SessionData, cb?: Callback): void {
+  override touch(sid: string, _sess: session.SessionData, cb?: Callback): void {
     try {
       this.db
         .update(sessions)
-        .set({ expiresAt: this.expiresAt(sess), lastSeenAt: Date.now() })
+        .set({ expiresAt: this.expiresAt(), lastSeenAt: Date.now() })
         .where(eq(sessions.sid, sid))
         .run();
       cb?.();
@@ -72,6 +88,24 @@ export class SqliteSessionStore extends session.Store {
     } catch (err) {
       cb?.(err);
     }
+  }
+
+  /**
+   * The signed-in person of a session that is still alive (within its idle and absolute
+   * timeouts), or undefined: what a live socket checks before each write.
+   */
+  liveSession(sid: string, now = Date.now()): { userId: string } | undefined {
+    const row = this.liveQuery.get({ sid });
+    if (!row?.userId || row.expiresAt <= now) return undefined;
+    const signedInAt = (JSON.parse(row.data) as { signedInAt?: number }).signedInAt;
+    if (signedInAt === undefined || now - signedInAt > this.absoluteMs) return undefined;
+    return { userId: row.userId };
+  }
+
+  /** Activity on a live socket (a tap) counts like a request: the idle timeout starts again. */
+  touchIdle(sid: string): void {
+    const now = Date.now();
+    this.touchQuery.run({ sid, now, expiresAt: now + this.idleMs });
   }
 
   /** Removes expired rows; called on a timer. */

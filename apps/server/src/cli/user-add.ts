@@ -1,7 +1,7 @@
 import 'reflect-metadata';
 import { parseArgs } from 'node:util';
 import { NestFactory } from '@nestjs/core';
-import { roleSchema } from '@steadyhand/shared';
+import { roleSchema, textSchema } from '@steadyhand/shared';
 import { z } from 'zod';
 import { AppModule } from '../app.module.js';
 import { ConfigError, loadConfig } from '../config/config.js';
@@ -13,13 +13,12 @@ The password is read from STEADYHAND_PASSWORD (at least 12 characters), never fr
 Roles: recorder, leader, pharmacist, reviewer, admin.`;
 
 const argsSchema = z.object({
-  username: z.string({ message: '--username is required' }),
-  name: z.string({ message: '--name is required' }).trim().min(1, '--name is required').max(120),
-  roles: z
-    .string({ message: '--roles is required' })
+  username: textSchema({ message: '--username is required' }),
+  name: textSchema({ message: '--name is required' }).trim().min(1, '--name is required').max(120),
+  roles: textSchema({ message: '--roles is required' })
     .transform((s) => s.split(',').map((r) => r.trim()).filter(Boolean))
     .pipe(z.array(roleSchema).min(1, 'give at least one role')),
-  password: z.string({ message: 'set STEADYHAND_PASSWORD' }),
+  password: textSchema({ message: 'set STEADYHAND_PASSWORD' }),
 });
 
 /** Creates a user with roles: the first admin of a fresh install, or a scripted account. */

@@ -9,11 +9,13 @@ import { EntriesService } from './entries.service.js';
 import { EntryChainService } from './entry-chain.service.js';
 import { EntryEvents } from './entry-events.js';
 import { LiveGateway } from './live.gateway.js';
+import { SealKey } from './record-seal.js';
+import { RecordSealService } from './record-seal.service.js';
 
 @Module({
   imports: [AuthModule, UsersModule, ProtocolModule],
   controllers: [CodesController],
-  providers: [CodesRepository, CodesService, EntriesService, EntryChainService, EntryEvents, LiveGateway],
-  exports: [CodesService, CodesRepository, EntriesService, EntryEvents, LiveGateway],
+  providers: [CodesRepository, CodesService, EntriesService, EntryChainService, EntryEvents, LiveGateway, SealKey, RecordSealService],
+  exports: [CodesService, CodesRepository, EntriesService, EntryEvents, LiveGateway, RecordSealService],
 })
 export class CodesModule {}

@@ -1,11 +1,13 @@
 import { BadRequestException, Inject, Injectable } from '@nestjs/common';
 import type { Code, CodeStatus, NewEntry, Outcome, StoredEntry, WeightSource } from '@steadyhand/shared';
-import { and, asc, desc, eq, gt } from 'drizzle-orm';
+import { and, asc, desc, eq, gt, isNull } from 'drizzle-orm';
 import type { Statement } from 'better-sqlite3';
 import { DATABASE, DB } from '../db/database.module.js';
 import type { DatabaseHandle, Db } from '../db/database.js';
 import { codes, entries } from '../db/schema/index.js';
+import { NotCanonicalisable } from '../common/canonical-json.js';
 import { CHAIN_START, entryLinkHash, type EntryLink } from './entry-chain.js';
+import { attachmentsDigest, differingParts, EMPTY_SEAL_STATE, SealKey, type SealPart, type SealState, type StoredSeal } from './record-seal.js';
 
 type CodeRow = typeof codes.$inferSelect;
 type EntryRow = typeof entries.$inferSelect;
@@ -35,6 +37,8 @@ export function toStoredEntry(row: EntryRow): StoredEntry {
     ...(row.body as unknown as NewEntry),
     codeId: row.codeId,
     userId: row.userId,
+    // Only where it was kept: an entry stored before names were kept reads (and hashes) as it did.
+    ...(row.userName !== null ? { userName: row.userName } : {}),
     cursor: row.cursor,
     receivedAt: row.receivedAt,
     recordedAt: row.recordedAt,
@@ -50,6 +54,7 @@ interface RawEntryRow {
   received_at: string;
   recorded_at: string;
   addendum: number;
+  user_name: string | null;
   body: string;
 }
 
@@ -58,6 +63,7 @@ function fromRawEntry(row: RawEntryRow): StoredEntry {
     ...(JSON.parse(row.body) as NewEntry),
     codeId: row.code_id,
     userId: row.user_id,
+    ...(row.user_name !== null ? { userName: row.user_name } : {}),
     cursor: row.cursor,
     receivedAt: row.received_at,
     recordedAt: row.recorded_at,
@@ -78,11 +84,16 @@ export class CodesRepository {
     insert: Statement<unknown[], { cursor: number }>;
     lastLink: Statement<[string], { position: number; hash: string }>;
     insertLink: Statement<[string, string, number, string, string]>;
+    seal: Statement<[string], StoredSeal>;
+    writeSeal: Statement<[string, number, string, number, string, string, string]>;
+    countSignatures: Statement<[string], { n: number }>;
+    attachmentList: Statement<[string], { id: string; sha256: string }>;
   };
 
   constructor(
     @Inject(DB) private readonly db: Db,
     @Inject(DATABASE) private readonly database: DatabaseHandle,
+    @Inject(SealKey) private readonly sealKey: SealKey,
   ) {
     const { sqlite } = database;
     this.hot = {
@@ -90,12 +101,20 @@ export class CodesRepository {
       entryById: sqlite.prepare('SELECT * FROM entries WHERE id = ?'),
       signed: sqlite.prepare('SELECT 1 AS one FROM signatures WHERE code_id = ? LIMIT 1'),
       insert: sqlite.prepare(
-        `INSERT INTO entries (id, code_id, kind, at, at_ms, device_id, seq, offset_ms, offset_uncertainty_ms, user_id, received_at, recorded_at, addendum, body)
-         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING cursor`,
+        `INSERT INTO entries (id, code_id, kind, at, at_ms, device_id, seq, offset_ms, offset_uncertainty_ms, user_id, user_name, received_at, recorded_at, addendum, body)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING cursor`,
       ),
       // A seek on the (code_id, position) unique index.
       lastLink: sqlite.prepare('SELECT position, hash FROM entry_links WHERE code_id = ? ORDER BY position DESC LIMIT 1'),
       insertLink: sqlite.prepare('INSERT INTO entry_links (entry_id, code_id, position, prev_hash, hash) VALUES (?, ?, ?, ?, ?)'),
+      seal: sqlite.prepare('SELECT code_id AS codeId, entries, head, signatures, attachments, mac FROM record_seals WHERE code_id = ?'),
+      writeSeal: sqlite.prepare(
+        `INSERT INTO record_seals (code_id, entries, head, signatures, attachments, mac, sealed_at) VALUES (?, ?, ?, ?, ?, ?, ?)
+         ON CONFLICT(code_id) DO UPDATE SET entries = excluded.entries, head = excluded.head, signatures = excluded.signatures,
+           attachments = excluded.attachments, mac = excluded.mac, sealed_at = excluded.sealed_at`,
+      ),
+      countSignatures: sqlite.prepare('SELECT count(*) AS n FROM signatures WHERE code_id = ?'),
+      attachmentList: sqlite.prepare('SELECT id, sha256 FROM attachments WHERE code_id = ?'),
     };
   }
 
@@ -104,8 +123,13 @@ export class CodesRepository {
     return this.hot.codeStatus.get(id)?.status;
   }
 
+  /** A new code, sealed empty in the same transaction: from now on its seal only grows with it. */
   insertCode(row: typeof codes.$inferInsert): Code {
-    return toCode(this.db.insert(codes).values(row).returning().get());
+    return this.database.sqlite.transaction(() => {
+      const code = toCode(this.db.insert(codes).values(row).returning().get());
+      this.writeSeal(code.id, EMPTY_SEAL_STATE);
+      return code;
+    })();
   }
 
   findCode(id: string): Code | undefined {
@@ -156,7 +180,7 @@ export class CodesRepository {
    */
   appendEntry(
     entry: NewEntry,
-    meta: { codeId: string; userId: string; receivedAt: string; addendum: boolean },
+    meta: { codeId: string; userId: string; userName?: string; receivedAt: string; addendum: boolean },
     afterInsert?: (stored: StoredEntry) => void,
   ): { entry: StoredEntry; duplicate: boolean } {
     const commit = this.database.sqlite.transaction((): { entry: StoredEntry; duplicate: boolean } => {
@@ -176,6 +200,7 @@ export class CodesRepository {
         entry.offsetMs ?? null,
         entry.offsetUncertaintyMs ?? null,
         meta.userId,
+        meta.userName ?? null,
         meta.receivedAt,
         recordedAt,
         meta.addendum ? 1 : 0,
@@ -185,13 +210,15 @@ export class CodesRepository {
         ...body,
         codeId: meta.codeId,
         userId: meta.userId,
+        ...(meta.userName !== undefined ? { userName: meta.userName } : {}),
         cursor,
         receivedAt: meta.receivedAt,
         recordedAt,
         addendum: meta.addendum,
       };
       // Read after the insert took the write lock, so no other writer can take the same position.
-      this.appendLink(stored);
+      const link = this.appendLink(stored);
+      this.extendSeal(meta.codeId, 'entries', { entries: link.position - 1, head: link.prevHash }, { entries: link.position, head: link.hash });
       afterInsert?.(stored);
       return { entry: stored, duplicate: false };
     });
@@ -199,18 +226,89 @@ export class CodesRepository {
   }
 
   /** Chains one stored entry after the code's last link. Call inside the entry's transaction. */
-  private appendLink(stored: StoredEntry): void {
+  private appendLink(stored: StoredEntry): { position: number; prevHash: string; hash: string } {
     const last = this.hot.lastLink.get(stored.codeId);
     const prevHash = last?.hash ?? CHAIN_START;
     let hash: string;
     try {
       hash = entryLinkHash(prevHash, stored);
-    } catch {
-      // The shared schema refuses lone surrogates in entry text; this is the last guard for any
-      // other field. A 400 rolls the entry back; a 500 would have the device resend it forever.
-      throw new BadRequestException('The entry holds text that is not well-formed Unicode (a lone surrogate); retype it');
+    } catch (err) {
+      // The shared schemas and the edge's JSON limits refuse what cannot be canonicalised; this is
+      // the last guard. A 400 rolls the entry back; a 500 would have the device resend it forever.
+      if (err instanceof NotCanonicalisable) throw new BadRequestException(`The entry cannot be stored: ${err.message}`);
+      throw err;
     }
-    this.hot.insertLink.run(stored.id, stored.codeId, (last?.position ?? 0) + 1, prevHash, hash);
+    const position = (last?.position ?? 0) + 1;
+    this.hot.insertLink.run(stored.id, stored.codeId, position, prevHash, hash);
+    return { position, prevHash, hash };
+  }
+
+  // --- the record's seal -----------------------------------------------------------------------
+
+  sealOf(codeId: string): StoredSeal | undefined {
+    return this.hot.seal.get(codeId);
+  }
+
+  /** What the record is made of now, counted the way the seal counts it. */
+  sealState(codeId: string): SealState {
+    const last = this.hot.lastLink.get(codeId);
+    return {
+      entries: last?.position ?? 0,
+      head: last?.hash ?? CHAIN_START,
+      signatures: this.hot.countSignatures.get(codeId)?.n ?? 0,
+      attachments: attachmentsDigest(this.hot.attachmentList.all(codeId)),
+    };
+  }
+
+  private writeSeal(codeId: string, state: SealState): void {
+    this.hot.writeSeal.run(codeId, state.entries, state.head, state.signatures, state.attachments, this.sealKey.mac(codeId, state), new Date().toISOString());
+  }
+
+  /**
+   * Moves one part of the seal from `from` to `to`, inside the transaction that made the change.
+   * Only a seal that verifies and still says `from` for that part is moved: a seal already at
+   * odds with the record (a row removed or rewritten outside the application) is left as it is,
+   * so the next write never launders the evidence. The write itself always goes ahead.
+   */
+  private extendSeal(codeId: string, part: SealPart, from: Partial<SealState>, to: Partial<SealState>): void {
+    const seal = this.sealOf(codeId);
+    if (!seal || !this.sealKey.verifies(seal)) return;
+    const { codeId: _codeId, mac: _mac, ...sealed } = seal;
+    if (differingParts(sealed, { ...sealed, ...from }).includes(part)) return;
+    this.writeSeal(codeId, { ...sealed, ...to });
+  }
+
+  /**
+   * Runs a write that adds a signature or an attachment, and moves that part of the seal in the
+   * same transaction.
+   */
+  sealedWrite<T>(codeId: string, part: 'signatures' | 'attachments', write: () => T): T {
+    return this.database.sqlite.transaction(() => {
+      const before = this.sealState(codeId);
+      const result = write();
+      const after = this.sealState(codeId);
+      if (differingParts(before, after).includes(part)) this.extendSeal(codeId, part, before, after);
+      return result;
+    })();
+  }
+
+  /** Seals every code as it stands (the first start with seals, on a database made before them). Returns how many. */
+  sealAsFound(): number {
+    const ids = this.database.sqlite.prepare<[], string>('SELECT id FROM codes').pluck().all();
+    const sealAll = this.database.sqlite.transaction(() => {
+      for (const id of ids) this.writeSeal(id, this.sealState(id));
+    });
+    sealAll.immediate();
+    return ids.length;
+  }
+
+  /** Keeps the facility name a record was first signed under (see codes.facility_name). */
+  freezeFacility(codeId: string, name: string): void {
+    this.db.update(codes).set({ facilityName: name }).where(and(eq(codes.id, codeId), isNull(codes.facilityName))).run();
+  }
+
+  frozenFacility(codeId: string): string | null {
+    return this.db.select({ name: codes.facilityName }).from(codes).where(eq(codes.id, codeId)).get()?.name ?? null;
   }
 
   /** The code's links in position order. */

@@ -147,6 +147,22 @@ export class CodesService {
     return this.timelineOf(code, entries);
   }
 
+  /**
+   * Whether a person was part of a code: they started it, recorded during it (an entry stored
+   * before the code's end was stored; an addendum or a note after the end does not count), or
+   * are named on its team (by display name). Writing to a code afterwards makes nobody part of it.
+   */
+  tookPart(id: string, user: Pick<SessionUser, 'id' | 'displayName'>): boolean {
+    const code = this.get(id);
+    if (code.createdBy === user.id) return true;
+    const entries = this.repo.entriesOf(id);
+    const end = liveEntries(entries).find((e) => e.kind === 'end');
+    const endedAt = end?.recordedAt ? Date.parse(end.recordedAt) : Number.POSITIVE_INFINITY;
+    if (entries.some((e) => e.userId === user.id && !e.addendum && Date.parse(e.recordedAt) <= endedAt)) return true;
+    const name = user.displayName.trim().toLowerCase();
+    return (this.repo.reviewDetails(id)?.team ?? []).some((m) => m.name.trim().toLowerCase() === name);
+  }
+
   dosing(id: string): DosingSheet {
     const timeline = this.timeline(id);
     if (!timeline.sheet) throw new BadRequestException('This code has a weight the dosing sheet cannot use');

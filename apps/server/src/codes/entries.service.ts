@@ -1,5 +1,5 @@
 import { BadRequestException, ConflictException, ForbiddenException, Inject, Injectable, NotFoundException } from '@nestjs/common';
-import { amendEntry, hasAnyRole, liveEntries, WRITER_ROLES, type NewEntry, type StoredEntry } from '@steadyhand/shared';
+import { amendEntry, effectiveEntries, hasAnyRole, liveEntries, unchangedFields, WRITER_ROLES, type ClinicalEntry, type NewEntry, type StoredEntry } from '@steadyhand/shared';
 import { AuditService } from '../audit/audit.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { CodesRepository } from './codes.repository.js';
@@ -59,7 +59,8 @@ export class EntriesService {
       throw new ConflictException('A signed record stays ended: amend the end entry or add a note instead of voiding it');
     }
 
-    const result = this.repo.appendEntry(entry, { codeId, userId: user.id, receivedAt, addendum }, () => {
+    // The writer's name as it is now goes with the entry: a later rename changes nothing in the record.
+    const result = this.repo.appendEntry(entry, { codeId, userId: user.id, userName: user.displayName, receivedAt, addendum }, () => {
       if (!addendum && endTouched) this.syncCodeStatus(codeId);
     });
     if (!result.duplicate) {
@@ -119,10 +120,25 @@ export class EntriesService {
     if (target.kind === 'void') throw new BadRequestException('A void cannot be voided or amended; add a new entry instead');
     if (entry.kind === 'amend') {
       if (target.kind === 'amend') throw new BadRequestException('Amend the original entry, not an amendment');
-      const result = amendEntry(target, entry.changes);
+      // Checked against the entry as it reads now (earlier corrections applied), as the record shows it.
+      const current = this.currentEntry(codeId, target.id) ?? (target);
+      const result = amendEntry(current, entry.changes);
       if (!result.ok) throw new BadRequestException(`The amendment would leave an invalid entry: ${result.error}`);
+      const same = unchangedFields(current, entry.changes);
+      if (same.length) {
+        const now = current as Record<string, unknown>;
+        throw new BadRequestException(`The amendment changes nothing: ${same.map((f) => `${f} is already ${JSON.stringify(now[f])}`).join('; ')}`);
+      }
     }
     return target;
+  }
+
+  /** A clinical entry as the corrected log reads it now, without the correction history. */
+  private currentEntry(codeId: string, id: string): ClinicalEntry | undefined {
+    const found = effectiveEntries(this.repo.entriesOf(codeId)).find((e) => e.id === id);
+    if (!found) return undefined;
+    const { original: _original, amendments: _amendments, voided: _voided, ...current } = found;
+    return current;
   }
 
   /** The code's status follows its log: ended by the first end entry that still stands. */

@@ -1,4 +1,4 @@
-import { HttpException, Inject, Logger } from '@nestjs/common';
+import { HttpException, Inject, Logger, type OnModuleDestroy } from '@nestjs/common';
 import {
   ConnectedSocket,
   MessageBody,
@@ -29,6 +29,8 @@ import { SessionService } from '../auth/session.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { APP_CONFIG } from '../config/config.module.js';
 import type { AppConfig } from '../config/config.js';
+import { jsonShapeProblem } from '../common/json-limits.js';
+import { uniqueConflict } from '../common/unique-conflict.js';
 import { describeZodError } from '../common/zod-validation.pipe.js';
 import { UsersService } from '../users/users.service.js';
 import { EntriesService } from './entries.service.js';
@@ -45,6 +47,9 @@ type Middleware = (req: HandshakeRequest, res: ServerResponse, next: (err?: unkn
 
 /** How long a socket's person is trusted before it is read from the database again. */
 const USER_RECHECK_MS = 3000;
+/** How often open sockets are checked against their sessions' idle and absolute timeouts. */
+const SESSION_SWEEP_MS = 2000;
+const SESSION_ENDED = 'Your session has ended: sign in again. What you recorded stays on this device and is sent once you have.';
 
 export const roomOf = (codeId: string) => `code:${codeId}`;
 /** Every screen that shows the board of live codes. */
@@ -63,9 +68,10 @@ const BOARD_ROOM = 'board';
   maxHttpBufferSize: 64 * 1024,
   cors: false,
 })
-export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConnection<LiveSocket>, OnGatewayDisconnect<LiveSocket> {
+export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConnection<LiveSocket>, OnGatewayDisconnect<LiveSocket>, OnModuleDestroy {
   private readonly logger = new Logger(LiveGateway.name);
   private readonly userCache = new Map<string, { user: SessionUser; at: number }>();
+  private sweepTimer: NodeJS.Timeout | undefined;
   @WebSocketServer() private readonly nsp!: LiveNamespace;
 
   constructor(
@@ -99,10 +105,46 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
     this.events.onCodesChanged((codeId) => nsp.to(BOARD_ROOM).emit('codes:changed', { codeId }));
     this.sessions.events.on('ended', (sid: string) => this.disconnectSession(sid));
     this.sessions.events.on('user-disabled', (userId: string) => this.disconnectUser(userId));
+    // A socket lives no longer than its session: idle or absolute timeout, it closes.
+    this.sweepTimer = setInterval(() => this.closeExpired(), SESSION_SWEEP_MS);
+    this.sweepTimer.unref();
+  }
+
+  onModuleDestroy(): void {
+    clearInterval(this.sweepTimer);
+  }
+
+  private closeExpired(): void {
+    const alive = new Map<string, boolean>();
+    for (const socket of this.nsp.sockets.values()) {
+      const { sid } = socket.data;
+      if (!alive.has(sid)) alive.set(sid, this.sessions.store.liveSession(sid) !== undefined);
+      if (!alive.get(sid)) socket.disconnect(true);
+    }
+  }
+
+  /**
+   * The session behind a socket, checked at each message that reads or writes a code: an
+   * expired one is answered 401 and the socket closes once the answer is sent.
+   */
+  private sessionAlive(socket: LiveSocket): boolean {
+    if (this.sessions.store.liveSession(socket.data.sid)) return true;
+    // After the acknowledgement has gone out (Nest sends it once this handler has returned).
+    setTimeout(() => socket.disconnect(true), 200).unref();
+    return false;
   }
 
   handleConnection(socket: LiveSocket): void {
     void socket.join(BOARD_ROOM);
+    // Every message is bounded before any handler sees it: one nested too deep gets a 400
+    // acknowledgement, which a device's outbox takes as final (never "retry").
+    socket.use((packet, next) => {
+      const ack: unknown = packet[packet.length - 1];
+      const args = typeof ack === 'function' ? packet.slice(1, -1) : packet.slice(1);
+      const problem = args.map((arg) => jsonShapeProblem(arg, 'The message')).find(Boolean);
+      if (!problem) return next();
+      if (typeof ack === 'function') (ack as (res: LiveError) => void)({ ok: false, status: 400, error: problem });
+    });
   }
 
   private disconnectSession(sid: string): void {
@@ -144,6 +186,7 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
   join(@ConnectedSocket() socket: LiveSocket, @MessageBody() payload: unknown): CodeJoinAck {
     return this.answer(() => {
       const request = this.parse(codeJoinSchema, payload);
+      if (!this.sessionAlive(socket)) return { ok: false, status: 401, error: SESSION_ENDED };
       if (!this.currentUser(socket)) return { ok: false, status: 401, error: 'signed out' };
       const { entries, cursor } = this.entries.entriesAfter(request.codeId, request.after ?? 0);
       void socket.join(roomOf(request.codeId));
@@ -162,8 +205,11 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
     const receivedAt = new Date().toISOString();
     return this.answer(() => {
       const request = this.parse(entryAddSchema, payload);
+      if (!this.sessionAlive(socket)) return { ok: false, status: 401, error: SESSION_ENDED };
       const user = this.currentUser(socket);
       if (!user) return { ok: false, status: 401, error: 'signed out' };
+      // A tap is activity: the idle timeout starts again, as for a request.
+      this.sessions.store.touchIdle(socket.data.sid);
       const { entry, duplicate } = this.entries.add(user, request.codeId, request.entry, receivedAt);
       return { ok: true, entry, duplicate };
     });
@@ -194,6 +240,8 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
         const text = Array.isArray(message) ? message.map(String).join('; ') : typeof message === 'string' ? message : err.message;
         return { ok: false, status: err.getStatus(), error: text };
       }
+      const conflict = uniqueConflict(err);
+      if (conflict) return { ok: false, status: 409, error: (conflict.getResponse() as { message: string }).message };
       this.logger.error(err instanceof Error ? (err.stack ?? err.message) : String(err));
       return { ok: false, status: 500, error: 'The server could not store this; it will be retried' };
     }

@@ -13,6 +13,10 @@ import { RecordsService } from '../records/records.service.js';
 import { UsersService } from '../users/users.service.js';
 import { DEMO_CODES, type DemoCode } from './demo-codes.js';
 import { DEMO_FACILITY, DEMO_PASSWORD, DEMO_PEOPLE, DEMO_UNITS } from './demo-data.js';
+import type { PasswordAttempt } from '../auth/login-throttle.service.js';
+
+/** The demo signs its past codes itself, from no address and no device. */
+const DEMO_LOADER: PasswordAttempt = { ip: undefined, deviceId: undefined };
 
 export interface DemoInfo {
   enabled: boolean;
@@ -115,11 +119,11 @@ export class DemoService {
       await this.records.sign(person(demo.signedBy.recorder), code.id, {
         meaning: 'recorded-by',
         password: DEMO_PASSWORD,
-      });
+      }, DEMO_LOADER);
     if (demo.signedBy.leader)
       await this.records.sign(person(demo.signedBy.leader), code.id, {
         meaning: 'reviewed-confirmed',
         password: DEMO_PASSWORD,
-      });
+      }, DEMO_LOADER);
   }
 }

@@ -1,9 +1,9 @@
 import { ConflictException, Inject, Injectable, NotFoundException } from '@nestjs/common';
-import { CART_RESTOCK_CSV_COLUMNS, CART_RESTOCK_DEFAULT_DAYS, sumCartRestock, type CartRestock, type CartRestockCodeInput } from '@steadyhand/shared';
+import { CART_RESTOCK_CSV_COLUMNS, CART_RESTOCK_DEFAULT_DAYS, csvCell, sumCartRestock, type CartRestock, type CartRestockCodeInput } from '@steadyhand/shared';
 import { AuditService } from '../audit/audit.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { PharmacyRepository } from './pharmacy.repository.js';
-import { ReconciliationService, csvCell, slug } from './reconciliation.service.js';
+import { ReconciliationService, slug } from './reconciliation.service.js';
 import { renderCartRestockPdf } from './restock-pdf.js';
 
 /** One restock list per cart: every code on the unit since a date, signed-off reconciliations summed. */

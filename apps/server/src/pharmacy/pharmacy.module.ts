@@ -1,4 +1,5 @@
 import { Module } from '@nestjs/common';
+import { AuthModule } from '../auth/auth.module.js';
 import { CodesModule } from '../codes/codes.module.js';
 import { UsersModule } from '../users/users.module.js';
 import { CartRestockService } from './cart-restock.service.js';
@@ -10,7 +11,7 @@ import { TraysService } from './trays.service.js';
 
 /** Tray templates, the pharmacist's worklist and drug reconciliation, restock lists. */
 @Module({
-  imports: [CodesModule, UsersModule],
+  imports: [AuthModule, CodesModule, UsersModule],
   controllers: [TraysController, ReconciliationController],
   providers: [PharmacyRepository, TraysService, ReconciliationService, CartRestockService],
 })

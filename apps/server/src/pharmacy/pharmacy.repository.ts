@@ -6,7 +6,6 @@ import type { Db } from '../db/database.js';
 import {
   auditEvents,
   codes,
-  entries,
   mailLog,
   reconciliationAddenda,
   reconciliationLines,
@@ -167,14 +166,6 @@ export class PharmacyRepository {
   signaturesOf(codeIds: string[]): (typeof signatures.$inferSelect)[] {
     if (codeIds.length === 0) return [];
     return this.db.select().from(signatures).where(inArray(signatures.codeId, codeIds)).orderBy(asc(signatures.signedAt)).all();
-  }
-
-  /** Whether the person started the code or added an entry to it. */
-  tookPart(codeId: string, userId: string): boolean {
-    const code = this.db.select({ createdBy: codes.createdBy }).from(codes).where(eq(codes.id, codeId)).get();
-    if (code?.createdBy === userId) return true;
-    const row = this.db.select({ id: entries.id }).from(entries).where(and(eq(entries.codeId, codeId), eq(entries.userId, userId))).limit(1).get();
-    return row !== undefined;
   }
 
   // ------------------------------------------------------------ reconciliations

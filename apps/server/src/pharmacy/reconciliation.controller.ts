@@ -12,7 +12,8 @@ import {
 } from '@steadyhand/shared';
 import type { Response } from 'express';
 import type { z } from 'zod';
-import { CurrentUser, Roles } from '../auth/auth.decorators.js';
+import { Attempt, CurrentUser, Roles } from '../auth/auth.decorators.js';
+import type { PasswordAttempt } from '../auth/login-throttle.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { ZodValidationPipe } from '../common/zod-validation.pipe.js';
 import { CartRestockService } from './cart-restock.service.js';
@@ -57,8 +58,9 @@ export class ReconciliationController {
     @CurrentUser() user: SessionUser,
     @Param('id') id: string,
     @Body(new ZodValidationPipe(signReconciliationSchema)) body: SignReconciliationRequest,
+    @Attempt() attempt: PasswordAttempt,
   ): Promise<ReconciliationView> {
-    return this.reconciliation.sign(user, id, body.password);
+    return this.reconciliation.sign(user, id, body.password, attempt);
   }
 
   @Roles('pharmacist')

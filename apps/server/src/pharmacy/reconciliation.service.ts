@@ -10,6 +10,7 @@ import {
   restockRows,
   UNIT_WORDS,
   formatAmount,
+  csvCell,
   type Code,
   type DrugTotal,
   type ReconciledDrug,
@@ -24,7 +25,8 @@ import type { z } from 'zod';
 import { AuditService } from '../audit/audit.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { CodesService } from '../codes/codes.service.js';
-import { UsersService } from '../users/users.service.js';
+import type { PasswordAttempt } from '../auth/login-throttle.service.js';
+import { PasswordCheckService } from '../auth/password-check.service.js';
 import { APP_CONFIG } from '../config/config.module.js';
 import type { AppConfig } from '../config/config.js';
 import { MailService } from '../mail/mail.service.js';
@@ -57,7 +59,7 @@ export class ReconciliationService {
   constructor(
     @Inject(PharmacyRepository) private readonly repo: PharmacyRepository,
     @Inject(CodesService) private readonly codes: CodesService,
-    @Inject(UsersService) private readonly users: UsersService,
+    @Inject(PasswordCheckService) private readonly passwords: PasswordCheckService,
     @Inject(AuditService) private readonly audit: AuditService,
     @Inject(MailService) private readonly mail: MailService,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
@@ -85,10 +87,10 @@ export class ReconciliationService {
     });
   }
 
-  /** Pharmacists read every code; recorders and leaders the codes they took part in. */
+  /** Pharmacists read every code; recorders and leaders the codes they were part of. */
   read(user: SessionUser, codeId: string): ReconciliationView {
     const { view } = this.compute(codeId);
-    if (!hasAnyRole(user.roles, ['pharmacist']) && !this.repo.tookPart(codeId, user.id)) {
+    if (!hasAnyRole(user.roles, ['pharmacist']) && !this.codes.tookPart(codeId, user)) {
       throw new ForbiddenException('You can read the drug reconciliation of codes you took part in');
     }
     return view;
@@ -105,11 +107,11 @@ export class ReconciliationService {
     return this.compute(codeId).view;
   }
 
-  async sign(user: SessionUser, codeId: string, password: string): Promise<ReconciliationView> {
+  async sign(user: SessionUser, codeId: string, password: string, attempt: PasswordAttempt): Promise<ReconciliationView> {
     const code = this.codes.get(codeId);
     this.assertOpen(code);
     // The password again at the moment of signing, as for the record's signatures.
-    await this.users.confirmPassword(user, password, { failedAction: 'reconciliation.sign-failed', codeId });
+    await this.passwords.confirm(user, password, attempt, { failedAction: 'reconciliation.sign-failed', codeId });
     if (!this.repo.findReconciliation(codeId)) {
       this.repo.saveDraft({ codeId, userId: user.id, trayId: this.defaultTrayId(code), notes: null, lines: [] }, new Date().toISOString(), randomUUID);
     }
@@ -321,9 +323,3 @@ const oneLine = (value: string) => value.replace(/[\u0000-\u001f\u007f]+/g, ' ')
 
 export const slug = (s: string) => s.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'unit';
 
-/** RFC 4180 quoting, and a leading ' on text a spreadsheet would run as a formula. */
-export function csvCell(value: string | number): string {
-  let text = String(value);
-  if (typeof value === 'string' && /^[=+\-@\t\r]/.test(text)) text = `'${text}`;
-  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}

@@ -21,8 +21,7 @@ export function computeCodeMetrics(
     unitId: code.unitId,
     category: code.category,
     firstRhythm: summary.firstRhythm,
-    // The older word for ending in ROSC counts as the current one, so one filter finds both.
-    outcome: summary.outcome === 'sustained-rosc' ? 'rosc' : summary.outcome,
+    outcome: summary.outcome,
     anyRosc: summary.anyRosc,
     sustainedRosc: summary.sustainedRosc,
     durationSeconds: summary.durationSeconds,

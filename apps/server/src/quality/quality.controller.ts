@@ -15,7 +15,8 @@ import {
   type QualityStats,
 } from '@steadyhand/shared';
 import type { Response } from 'express';
-import { CurrentUser, Roles } from '../auth/auth.decorators.js';
+import { Attempt, CurrentUser, Roles } from '../auth/auth.decorators.js';
+import type { PasswordAttempt } from '../auth/login-throttle.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { ZodValidationPipe } from '../common/zod-validation.pipe.js';
 import { QualityService } from './quality.service.js';
@@ -73,8 +74,9 @@ export class QualityController {
     @CurrentUser() user: SessionUser,
     @Param('id') id: string,
     @Body(new ZodValidationPipe(qualitySignOffSchema)) body: QualitySignOffRequest,
+    @Attempt() attempt: PasswordAttempt,
   ): Promise<{ review: QualityReview }> {
-    return { review: await this.quality.signOff(user, id, body.password) };
+    return { review: await this.quality.signOff(user, id, body.password, attempt) };
   }
 
   @Roles('reviewer', 'admin')

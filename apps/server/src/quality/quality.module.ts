@@ -1,4 +1,5 @@
 import { Module } from '@nestjs/common';
+import { AuthModule } from '../auth/auth.module.js';
 import { CodesModule } from '../codes/codes.module.js';
 import { UsersModule } from '../users/users.module.js';
 import { QualityMetricsService } from './quality-metrics.service.js';
@@ -7,7 +8,7 @@ import { QualityRepository } from './quality.repository.js';
 import { QualityService } from './quality.service.js';
 
 @Module({
-  imports: [CodesModule, UsersModule],
+  imports: [AuthModule, CodesModule, UsersModule],
   controllers: [QualityController],
   providers: [QualityRepository, QualityService, QualityMetricsService],
 })

@@ -22,7 +22,8 @@ export function qualityConditions(f: QualityFilter): SQL | undefined {
   if (f.to) c.push(lt(codeMetrics.arrestAt, nextDay(f.to)));
   if (f.unitId) c.push(eq(codeMetrics.unitId, f.unitId));
   if (f.firstRhythm) c.push(f.firstRhythm === 'none' ? isNull(codeMetrics.firstRhythm) : eq(codeMetrics.firstRhythm, f.firstRhythm));
-  if (f.outcome) c.push(eq(codeMetrics.outcome, f.outcome));
+  // The older and the current word for ending in ROSC mean the same: either finds both.
+  if (f.outcome) c.push(f.outcome === 'rosc' || f.outcome === 'sustained-rosc' ? inArray(codeMetrics.outcome, ['rosc', 'sustained-rosc']) : eq(codeMetrics.outcome, f.outcome));
   if (f.missed === 'any') c.push(gt(codeMetrics.targetsMissedCount, 0));
   else if (f.missed) c.push(like(codeMetrics.targetsMissed, `%,${f.missed},%`));
   return c.length ? and(...c) : undefined;

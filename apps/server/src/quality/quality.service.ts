@@ -18,8 +18,9 @@ import {
 } from '@steadyhand/shared';
 import { AuditService } from '../audit/audit.service.js';
 import type { SessionUser } from '../auth/session-user.js';
+import type { PasswordAttempt } from '../auth/login-throttle.service.js';
+import { PasswordCheckService } from '../auth/password-check.service.js';
 import { CodesService } from '../codes/codes.service.js';
-import { UsersService } from '../users/users.service.js';
 import { QualityRepository } from './quality.repository.js';
 
 @Injectable()
@@ -27,7 +28,7 @@ export class QualityService {
   constructor(
     @Inject(QualityRepository) private readonly repo: QualityRepository,
     @Inject(CodesService) private readonly codes: CodesService,
-    @Inject(UsersService) private readonly users: UsersService,
+    @Inject(PasswordCheckService) private readonly passwords: PasswordCheckService,
     @Inject(AuditService) private readonly audit: AuditService,
   ) {}
 
@@ -105,10 +106,10 @@ export class QualityService {
   }
 
   /** The reviewed-by sign-off, with the password typed again (as for the record's signatures). */
-  async signOff(user: SessionUser, id: string, password: string): Promise<QualityReview> {
+  async signOff(user: SessionUser, id: string, password: string, attempt: PasswordAttempt): Promise<QualityReview> {
     this.endedCode(id);
     if (this.reviewOf(id).reviewedAt) throw new ConflictException('This review is signed off already');
-    await this.users.confirmPassword(user, password, { failedAction: 'quality.sign-off-failed', codeId: id });
+    await this.passwords.confirm(user, password, attempt, { failedAction: 'quality.sign-off-failed', codeId: id });
     // Checked again after the slow hash: another reviewer may have signed meanwhile.
     if (this.reviewOf(id).reviewedAt) throw new ConflictException('This review is signed off already');
     const now = new Date().toISOString();

@@ -11,6 +11,7 @@ import {
   type CodeSummary,
   type EffectiveEntry,
   type EntryChainStatus,
+  type RecordIntegrity,
   type LogEntry,
   type ProtocolSettings,
   type RecordSignature,
@@ -48,11 +49,13 @@ export interface RecordPdfInput {
   digest: string;
   /** The entry chain as checked when printing; one line beside the digest. */
   chain: EntryChainStatus;
+  /** Every tamper check as of printing: a failure is printed on the first page and at every foot. */
+  integrity: RecordIntegrity;
   status: RecordStatus;
   summary: CodeSummary;
   settings: ProtocolSettings;
   signatures: RecordSignature[];
-  /** userId → printed name, for the "recorded by" column. */
+  /** userId → printed name, for the "recorded by" column (an entry's own kept name comes first). */
   people: ReadonlyMap<string, string>;
   timeZone: string;
   generatedAt: string;
@@ -79,6 +82,16 @@ const STATUS_TEXT: Record<RecordStatus, string> = {
 
 // Text in the page header too: the diagonal mark is drawn rotated, which text extraction skips.
 const HEADER_STATUS: Record<RecordStatus, string> = { draft: 'DRAFT — not signed', 'partly-signed': 'Partly signed', signed: 'Signed' };
+
+/** One line at every page's foot: every check passed, or the first failure and how many more. */
+export function integrityLine(integrity: RecordIntegrity): string {
+  if (integrity.valid) return 'Record check: entry chain, seal, signatures and attachment files all verify';
+  const more = integrity.problems.length - 1;
+  // One line at the foot: the whole list is on page 1.
+  const first = integrity.problems[0] ?? '';
+  const shown = first.length > 110 ? `${first.slice(0, 109)}…` : first;
+  return `RECORD CHECK FAILED: ${shown}${more > 0 ? ` (+${more} more on page 1)` : ''}`;
+}
 
 /** "Entry chain: 32 entries, head 3f2a…, intact", or where it breaks. */
 export function chainLine(chain: EntryChainStatus): string {
@@ -218,6 +231,8 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
   const at = (iso: string | null) => (iso ? clock.time(iso) : 'not recorded');
   const fromArrest = (seconds: number | null) => (seconds === null ? '' : duration(seconds));
   const who = (userId: string | undefined) => (userId ? (people.get(userId) ?? userId) : '');
+  // The name kept with a stored entry when it was written, whatever the person is called now.
+  const writerOf = (entryId: string, userId: string | undefined) => byId.get(entryId)?.userName ?? who(userId);
 
   const patient = code.patient;
   const patientText =
@@ -354,7 +369,7 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
       markers.push({
         text: [
           { text: `AMENDED${addendum} `, bold: true },
-          `${clock.time(byId.get(a.id)?.recordedAt ?? a.at)} by ${who(a.userId)}. Was: ${was}. Now: ${now}. Reason: ${a.reason}`,
+          `${clock.time(byId.get(a.id)?.recordedAt ?? a.at)} by ${writerOf(a.id, a.userId)}. Was: ${was}. Now: ${now}. Reason: ${a.reason}`,
         ],
         style: 'marker',
       });
@@ -363,7 +378,7 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
     if (voided) {
       const addendum = byId.get(voided.id)?.addendum ? ' (addendum)' : '';
       markers.push({
-        text: [{ text: `VOIDED${addendum} `, bold: true }, `${clock.time(byId.get(voided.id)?.recordedAt ?? voided.at)} by ${who(voided.userId)}. Reason: ${voided.reason}`],
+        text: [{ text: `VOIDED${addendum} `, bold: true }, `${clock.time(byId.get(voided.id)?.recordedAt ?? voided.at)} by ${writerOf(voided.id, voided.userId)}. Reason: ${voided.reason}`],
         style: 'marker',
       });
     }
@@ -375,7 +390,7 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
       { text: sinceArrest((Date.parse(e.at) - arrestMs) / 1000), ...strike },
       { text: d.what, bold: true, ...strike },
       markers.length > 0 ? { stack: [{ text: d.details, ...strike }, ...markers] } : { text: d.details, ...strike },
-      { text: who(e.userId) },
+      { text: writerOf(e.id, e.userId) },
       { text: e.deviceId ?? '' },
     ];
   });
@@ -445,10 +460,35 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
     margin: [0, 6, 0, 6],
   };
 
+  // A failed check is said first, in words, before anything the record says.
+  const integrityBox: Content[] = input.integrity.valid
+    ? []
+    : [
+        {
+          table: {
+            widths: ['*'],
+            body: [
+              [
+                {
+                  stack: [
+                    { text: 'RECORD CHECK FAILED: this record was changed outside Steadyhand. Do not rely on it; tell the administrator.', bold: true, fontSize: 11 },
+                    { ul: input.integrity.problems, fontSize: 8, margin: [0, 3, 0, 0] },
+                  ],
+                  margin: [4, 3, 4, 3],
+                },
+              ],
+            ],
+          },
+          layout: { hLineWidth: () => 2.5, vLineWidth: () => 2.5 },
+          margin: [0, 0, 0, 6],
+        },
+      ];
+
   const content: Content[] = [
     { text: 'Resuscitation record', style: 'h1' },
     { text: `${record.facility} — ${location}`, fontSize: 12, bold: true, margin: [0, 2, 0, 0] },
     statusBox,
+    ...integrityBox,
     factRows([
       ['Patient', patientText + (patientMore ? ` (${patientMore})` : '')],
       ['Category and weight', `${category}, ${weight}`],
@@ -525,6 +565,7 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
           stack: [
             { text: `Record SHA-256: ${digest}`, fontSize: 7, color: GREY },
             { text: chainLine(input.chain), fontSize: 7, color: input.chain.valid ? GREY : '#000000', bold: !input.chain.valid },
+            { text: integrityLine(input.integrity), fontSize: 7, color: input.integrity.valid ? GREY : '#000000', bold: !input.integrity.valid },
           ],
           width: '*',
         },

@@ -18,7 +18,8 @@ import {
 } from '@steadyhand/shared';
 import type { Response } from 'express';
 import { memoryStorage } from 'multer';
-import { CurrentUser, Roles } from '../auth/auth.decorators.js';
+import { Attempt, CurrentUser, Roles } from '../auth/auth.decorators.js';
+import type { PasswordAttempt } from '../auth/login-throttle.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { ZodValidationPipe } from '../common/zod-validation.pipe.js';
 import type { RecordCode } from './record-canonical.js';
@@ -50,8 +51,9 @@ export class RecordsController {
     @CurrentUser() user: SessionUser,
     @Param('id') id: string,
     @Body(new ZodValidationPipe(signRecordSchema)) body: SignRecordRequest,
+    @Attempt() attempt: PasswordAttempt,
   ): Promise<{ signature: RecordSignature; status: RecordStatus }> {
-    return this.records.sign(user, id, body);
+    return this.records.sign(user, id, body, attempt);
   }
 
   @Roles(RECORDER, LEADER)
@@ -76,7 +78,7 @@ export class RecordsController {
 
   @Roles('any')
   @Get('codes/:id/record')
-  record(@Param('id') id: string): RecordView {
+  record(@Param('id') id: string): Promise<RecordView> {
     return this.records.view(id);
   }
 
@@ -102,7 +104,7 @@ export class RecordsController {
   @Post('records/verify')
   @HttpCode(200)
   @UseInterceptors(FileInterceptor('file', { storage: memoryStorage(), limits: { fileSize: MAX_VERIFY_BYTES, files: 1 } }))
-  verify(@UploadedFile() file: Express.Multer.File | undefined, @Body() body: unknown): VerifyRecordResult {
+  verify(@UploadedFile() file: Express.Multer.File | undefined, @Body() body: unknown): Promise<VerifyRecordResult> {
     if (file) return this.records.verifyPdf(file.buffer);
     if (body && typeof body === 'object' && Object.keys(body).length === 0) throw new BadRequestException('Send a PDF as the multipart field "file", or JSON { "digest" }');
     return this.records.verifyDigest(new ZodValidationPipe(verifyRecordSchema).transform(body));

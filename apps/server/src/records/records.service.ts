@@ -29,15 +29,19 @@ import type { SessionUser } from '../auth/session-user.js';
 import { CodesRepository } from '../codes/codes.repository.js';
 import { verifyEntryChain } from '../codes/entry-chain.js';
 import { EntriesService } from '../codes/entries.service.js';
+import { RecordSealService } from '../codes/record-seal.service.js';
+import { AttachmentsService } from '../attachments/attachments.service.js';
 import { APP_CONFIG } from '../config/config.module.js';
 import type { AppConfig } from '../config/config.js';
 import { MailService } from '../mail/mail.service.js';
+import type { PasswordAttempt } from '../auth/login-throttle.service.js';
+import { PasswordCheckService } from '../auth/password-check.service.js';
 import { CodesService } from '../codes/codes.service.js';
-import { UsersService } from '../users/users.service.js';
 import { DB } from '../db/database.module.js';
 import type { Db } from '../db/database.js';
 import { inArray } from 'drizzle-orm';
 import { users } from '../db/schema/index.js';
+import { NotCanonicalisable } from '../common/canonical-json.js';
 import {
   formatPdfStamp,
   pdfStampText,
@@ -78,8 +82,10 @@ export class RecordsService {
     @Inject(EntriesService) private readonly entries: EntriesService,
     @Inject(SignaturesRepository) private readonly signatures: SignaturesRepository,
     @Inject(CodesService) private readonly codesService: CodesService,
-    @Inject(UsersService) private readonly users: UsersService,
+    @Inject(PasswordCheckService) private readonly passwords: PasswordCheckService,
     @Inject(AuditService) private readonly audit: AuditService,
+    @Inject(RecordSealService) private readonly seals: RecordSealService,
+    @Optional() @Inject(AttachmentsService) private readonly attachments?: AttachmentsService,
     // Optional, so the records feature works (and its tests run) in an app without the mail module.
     @Optional() @Inject(MailService) private readonly mail?: MailService,
   ) {}
@@ -107,7 +113,8 @@ export class RecordsService {
     const code = this.recordCode(id);
     return {
       format: RECORD_FORMAT,
-      facility: this.signatures.facility().name,
+      // As first signed, once signed: a rename of the facility since changes nothing.
+      facility: this.codes.frozenFacility(id) ?? this.signatures.facility().name,
       code,
       entries: this.codes.entriesOf(id),
       attachments: this.signatures.attachmentsOf(id),
@@ -138,21 +145,55 @@ export class RecordsService {
     return meanings.size === 0 ? 'draft' : meanings.has('recorded-by') && meanings.has('reviewed-confirmed') ? 'signed' : 'partly-signed';
   }
 
-  view(id: string): RecordView {
+  /**
+   * Runs work that canonicalises the record. A record holding something RFC 8785 cannot serialise
+   * (stored before the schemas refused it) answers 409 saying which field, never a 500.
+   */
+  private canonical<T>(work: () => T): T {
+    try {
+      return work();
+    } catch (err) {
+      if (!(err instanceof NotCanonicalisable)) throw err;
+      throw new ConflictException({
+        statusCode: 409,
+        error: 'record-not-canonical',
+        message: `This record cannot be canonicalised (RFC 8785), so it cannot be shown, printed, signed or verified: record.${err.message}. Correct that detail of the code; stored entries stay as they were written.`,
+      });
+    }
+  }
+
+  async view(id: string): Promise<RecordView> {
+    const view = this.canonical(() => this.buildView(id));
+    // The attachments' files are read and hashed again on every view: the record lists digests.
+    const fileProblems = this.attachments ? await this.attachments.fileProblems(id) : [];
+    if (fileProblems.length) view.integrity = { valid: false, problems: [...view.integrity.problems, ...fileProblems] };
+    return view;
+  }
+
+  private buildView(id: string): RecordView {
     const record = this.canonicalRecord(id);
     const rows = this.signatures.ofCode(id);
+    const chain = verifyEntryChain(record.entries, this.codes.linksOf(id));
+    const signatures = rows.map((r) => ({
+      printedName: r.printedName,
+      meaning: r.meaning,
+      meaningText: SIGNATURE_MEANING_TEXT[r.meaning],
+      signedAt: r.signedAt,
+      valid: this.signatureValid(r, record),
+      signerId: r.userId,
+    }));
+    const problems = [
+      ...(chain.valid ? [] : [`The entry chain is broken at position ${chain.brokenAt.position} (entry ${chain.brokenAt.entryId}): ${chain.brokenAt.reason}.`]),
+      ...this.seals.problems(id),
+      ...signatures.filter((sig) => !sig.valid).map((sig) => `The "${sig.meaningText}" signature of ${sig.printedName} does not verify against this record.`),
+      ...addendumProblems(record, rows),
+    ];
     return {
       record,
       digest: recordDigest(record),
-      chain: verifyEntryChain(record.entries, this.codes.linksOf(id)),
-      signatures: rows.map((r) => ({
-        printedName: r.printedName,
-        meaning: r.meaning,
-        meaningText: SIGNATURE_MEANING_TEXT[r.meaning],
-        signedAt: r.signedAt,
-        valid: this.signatureValid(r, record),
-        signerId: r.userId,
-      })),
+      chain,
+      integrity: { valid: problems.length === 0, problems },
+      signatures,
       status: this.statusOf(rows),
       people: Object.fromEntries(this.peopleOf(record, rows)),
     };
@@ -217,7 +258,7 @@ export class RecordsService {
 
   // --- signing -------------------------------------------------------------------------------
 
-  async sign(user: SessionUser, id: string, body: SignRecordRequest): Promise<{ signature: RecordSignature; status: RecordStatus }> {
+  async sign(user: SessionUser, id: string, body: SignRecordRequest, attempt: PasswordAttempt): Promise<{ signature: RecordSignature; status: RecordStatus }> {
     const code = this.recordCode(id);
     if (code.status !== 'ended') throw new ConflictException('The code has not ended: a record is signed after the code ends');
     const role = SIGNATURE_MEANING_ROLE[body.meaning];
@@ -234,24 +275,30 @@ export class RecordsService {
     }
 
     // 21 CFR 11.200: the password again at the moment of signing.
-    await this.users.confirmPassword(user, body.password, { failedAction: 'record.sign-failed', codeId: id, detail: { meaning: body.meaning } });
+    await this.passwords.confirm(user, body.password, attempt, { failedAction: 'record.sign-failed', codeId: id, detail: { meaning: body.meaning } });
 
     // After the await: checked again, since another signature may have landed meanwhile.
     if (this.signatures.ofCode(id).some((r) => r.meaning === body.meaning || r.userId === user.id)) {
       throw new ConflictException(`This record already has a "${SIGNATURE_MEANING_TEXT[body.meaning]}" signature`);
     }
-    const record = this.canonicalRecord(id);
-    const digest = recordDigest(record);
-    // Not earlier than any stored entry, so the record "as of" this signature holds all it signed.
-    const latest = Math.max(Date.now(), ...record.entries.map((e) => Date.parse(e.recordedAt)), ...record.attachments.map((a) => Date.parse(a.uploadedAt)));
-    const signedAt = new Date(latest).toISOString();
     const printedName = user.displayName;
-    const serverSignature = signText(
-      this.recordKeys().privateKey,
-      signaturePayloadText({ recordId: id, digest, signerId: user.id, printedName, meaning: body.meaning, signedAt }),
-    );
-    const signatureRow: SignatureRow = { id: randomUUID(), codeId: id, userId: user.id, printedName, meaning: body.meaning, signedAt, recordDigest: digest, serverSignature };
-    this.signatures.insert(signatureRow);
+    // One transaction: the facility name kept with the record at its first signature, the record
+    // read and signed, the signature stored and counted in the record's seal.
+    const { signatureRow, digest, signedAt } = this.seals.sealedWrite(id, 'signatures', () => {
+      if (existing.length === 0) this.codes.freezeFacility(id, this.signatures.facility().name);
+      const record = this.canonicalRecord(id);
+      const digest = this.canonical(() => recordDigest(record));
+      // Not earlier than any stored entry, so the record "as of" this signature holds all it signed.
+      const latest = Math.max(Date.now(), ...record.entries.map((e) => Date.parse(e.recordedAt)), ...record.attachments.map((a) => Date.parse(a.uploadedAt)));
+      const signedAt = new Date(latest).toISOString();
+      const serverSignature = signText(
+        this.recordKeys().privateKey,
+        signaturePayloadText({ recordId: id, digest, signerId: user.id, printedName, meaning: body.meaning, signedAt }),
+      );
+      const signatureRow: SignatureRow = { id: randomUUID(), codeId: id, userId: user.id, printedName, meaning: body.meaning, signedAt, recordDigest: digest, serverSignature };
+      this.signatures.insert(signatureRow);
+      return { signatureRow, digest, signedAt };
+    });
     this.audit.record({
       action: 'record.signed',
       userId: user.id,
@@ -289,7 +336,7 @@ export class RecordsService {
   // --- the printed copy ----------------------------------------------------------------------
 
   async pdf(user: SessionUser, id: string): Promise<{ buffer: Buffer; filename: string }> {
-    const view = this.view(id);
+    const view = await this.view(id);
     const { record, digest } = view;
     // The code's own protocol version: an admin's later change never alters its record.
     const timeline = this.codesService.timelineOf(record.code, record.entries);
@@ -301,6 +348,7 @@ export class RecordsService {
       record,
       digest,
       chain: view.chain,
+      integrity: view.integrity,
       status: view.status,
       summary,
       settings,
@@ -335,23 +383,31 @@ export class RecordsService {
     return Intl.DateTimeFormat().resolvedOptions().timeZone;
   }
 
+  /**
+   * Names for the people of a record: the name kept with their entries (as they were named when
+   * they wrote, so a rename since changes nothing), else, for entries stored before names were
+   * kept and for signers, their name now.
+   */
   private peopleOf(record: CanonicalRecord, signatureRows: SignatureRow[] = []): Map<string, string> {
-    const ids = [...new Set([...record.entries.map((e) => e.userId), ...signatureRows.map((r) => r.userId)])];
-    if (ids.length === 0) return new Map();
+    const names = new Map<string, string>();
+    for (const e of record.entries) if (e.userName && !names.has(e.userId)) names.set(e.userId, e.userName);
+    const ids = [...new Set([...record.entries.map((e) => e.userId), ...signatureRows.map((r) => r.userId)])].filter((id) => !names.has(id));
+    if (ids.length === 0) return names;
     const rows = this.db.select({ id: users.id, displayName: users.displayName }).from(users).where(inArray(users.id, ids)).all();
-    return new Map(rows.map((r) => [r.id, r.displayName]));
+    for (const r of rows) names.set(r.id, r.displayName);
+    return names;
   }
 
   // --- verification --------------------------------------------------------------------------
 
-  verifyPdf(bytes: Buffer): VerifyRecordResult {
+  async verifyPdf(bytes: Buffer): Promise<VerifyRecordResult> {
     if (bytes.subarray(0, 5).toString('latin1') !== '%PDF-') return { valid: false, reason: 'This file is not a PDF.' };
     const stamp = readPdfStamp(bytes);
     if (!stamp) return { valid: false, reason: 'This PDF carries no Steadyhand record stamp: it was not made by Steadyhand, or its metadata was removed.' };
     if (!verifyText(this.recordKeys().publicKey, pdfStampText(stamp), stamp.signature)) {
       return { valid: false, reason: "The server signature in this file does not verify: the file was altered, or it was not made by this server." };
     }
-    const result = this.verifyAgainst(stamp.recordId, stamp.digest);
+    const result = await this.verifyAgainst(stamp.recordId, stamp.digest);
     if (!result.valid || !result.record) return result;
     const issued = this.signatures.findIssuedCopy(stamp.recordId, sha256Hex(bytes));
     if (!issued) {
@@ -364,19 +420,25 @@ export class RecordsService {
     return { ...result, reason: `${result.reason} This file is the copy issued on ${issued.at}.` };
   }
 
-  verifyDigest(body: VerifyRecordRequest): VerifyRecordResult {
+  async verifyDigest(body: VerifyRecordRequest): Promise<VerifyRecordResult> {
     const candidates = body.recordId ? [body.recordId] : this.signatures.codesSignedWithDigest(body.digest);
     if (candidates.length === 0) {
       return { valid: false, reason: 'No signed record has this digest. Enter the record id printed on the copy as well, or upload the PDF.' };
     }
     // A digest alone may name a record that changed since: the first candidate that still matches wins.
-    const results = candidates.map((id) => this.verifyAgainst(id, body.digest));
+    const results = await Promise.all(candidates.map((id) => this.verifyAgainst(id, body.digest)));
     return results.find((r) => r.valid) ?? results[0]!;
   }
 
-  private verifyAgainst(recordId: string, digest: string): VerifyRecordResult {
+  private async verifyAgainst(recordId: string, digest: string): Promise<VerifyRecordResult> {
     if (!this.codes.findCode(recordId)) return { valid: false, reason: 'No record with this id on this server.' };
-    const view = this.view(recordId);
+    let view: RecordView;
+    try {
+      view = await this.view(recordId);
+    } catch (err) {
+      if (err instanceof ConflictException) return { valid: false, reason: String((err.getResponse() as { message: string }).message) };
+      throw err;
+    }
     const summary = {
       id: recordId,
       location: view.record.code.location,
@@ -405,7 +467,28 @@ export class RecordsService {
         record: summary,
       };
     }
+    // The seal, the attachments' files and the addenda: what the digest alone cannot see.
+    if (!view.integrity.valid) return { valid: false, reason: view.integrity.problems.join(' '), record: summary };
     const how = view.status === 'draft' ? 'It is a draft: nobody has signed it yet.' : view.status === 'partly-signed' ? 'It carries one of its two signatures.' : 'Both signatures verify.';
     return { valid: true, reason: `This copy matches the record as it is now. ${how}`, record: summary };
   }
+}
+
+/**
+ * After the first signature the log grows only by addenda: an entry stored later but not marked
+ * as one (inserted outside the application), or one marked as an addendum though stored before
+ * any signature, is named.
+ */
+function addendumProblems(record: CanonicalRecord, rows: SignatureRow[]): string[] {
+  const firstSignedAt = rows.length ? Math.min(...rows.map((r) => Date.parse(r.signedAt))) : undefined;
+  const problems: string[] = [];
+  record.entries.forEach((e, i) => {
+    const stored = Date.parse(e.recordedAt);
+    if (firstSignedAt !== undefined && stored > firstSignedAt && !e.addendum) {
+      problems.push(`Entry ${i + 1} (${e.id}) was stored after the record was signed but is not marked as an addendum.`);
+    } else if (e.addendum && (firstSignedAt === undefined || stored < firstSignedAt)) {
+      problems.push(`Entry ${i + 1} (${e.id}) is marked as an addendum but was stored before the record was signed.`);
+    }
+  });
+  return problems;
 }

@@ -1,8 +1,8 @@
 import { randomUUID } from 'node:crypto';
-import { ConflictException, ForbiddenException, Inject, Injectable } from '@nestjs/common';
+import { ConflictException, Inject, Injectable } from '@nestjs/common';
 import { newPasswordSchema, usernameSchema, type PublicUser, type Role } from '@steadyhand/shared';
 import { assertNotCommonPassword } from '../auth/common-passwords.js';
-import { hashPassword, verifyPassword } from '../auth/password.js';
+import { hashPassword } from '../auth/password.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { AuditService } from '../audit/audit.service.js';
 import { UsersRepository, type UserRow } from './users.repository.js';
@@ -24,28 +24,6 @@ export class UsersService {
 
   findByUsername(username: string): UserRow | undefined {
     return this.repo.findByUsername(username);
-  }
-
-  /**
-   * A signature (record, reconciliation, quality review) asks for the password again at the
-   * moment of signing. A wrong one is audited under `failedAction` and answered 403 with
-   * `error: "password"`, never 401: a typo must not sign the person out of the page they are on.
-   */
-  async confirmPassword(
-    user: SessionUser,
-    password: string,
-    failure: { failedAction: string; codeId: string; detail?: Record<string, unknown> },
-  ): Promise<void> {
-    const row = this.repo.findById(user.id);
-    if (row && !row.disabledAt && (await verifyPassword(password, row.passwordHash))) return;
-    this.audit.record({
-      action: failure.failedAction,
-      userId: user.id,
-      username: user.username,
-      codeId: failure.codeId,
-      detail: { ...failure.detail, reason: 'password does not match' },
-    });
-    throw new ForbiddenException({ statusCode: 403, error: 'password', message: 'The password does not match. Nothing was signed.' });
   }
 
   /** The person behind a session, or undefined when they no longer exist or were disabled. */

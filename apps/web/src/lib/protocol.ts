@@ -1,6 +1,7 @@
 import {
   DEFAULT_PROTOCOL,
   protocolSettingsSchema,
+  textSchema,
   type ProtocolDocument,
   type ProtocolSettings,
 } from '@steadyhand/shared';
@@ -25,8 +26,8 @@ export const protocolKeys = {
 export const protocolDocumentSchema = z.object({
   protocol: protocolSettingsSchema,
   version: z.number().int().positive(),
-  updatedAt: z.string().nullable(),
-  updatedBy: z.string().nullable(),
+  updatedAt: textSchema().nullable(),
+  updatedBy: textSchema().nullable(),
 });
 
 const protocolVersionSchema = z.object({ version: z.number().int().positive(), protocol: protocolSettingsSchema });

@@ -27,6 +27,11 @@ export const codes = sqliteTable(
     protocolVersion: integer('protocol_version'),
     /** When adult/child was last switched during the code. */
     categoryChangedAt: text('category_changed_at'),
+    /**
+     * The facility name as it was at the record's first signature, so a later rename of the
+     * facility leaves the signed record (and its signatures) as they were. Null until signed.
+     */
+    facilityName: text('facility_name'),
   },
   (t) => [index('codes_status_idx').on(t.status, t.arrestAt)],
 );
@@ -57,6 +62,8 @@ export const entries = sqliteTable(
     receivedAt: text('received_at').notNull(),
     recordedAt: text('recorded_at').notNull(),
     addendum: integer('addendum', { mode: 'boolean' }).notNull().default(false),
+    /** The writer's display name when the entry was stored (null on entries stored before names were kept). */
+    userName: text('user_name'),
     /** The entry as validated, kind-specific fields included. */
     body: text('body', { mode: 'json' }).notNull().$type<Record<string, unknown>>(),
   },
@@ -85,3 +92,22 @@ export const entryLinks = sqliteTable(
   },
   (t) => [uniqueIndex('entry_links_code_position_idx').on(t.codeId, t.position)],
 );
+
+/**
+ * One seal per code: the server's HMAC-SHA256 (key in DATA_DIR/keys, never in the database) over
+ * what the record is made of: the entry chain's length and head, the number of signatures and a
+ * digest of the attachment list. Rewritten (never with a stale state) each time one of them grows,
+ * so a recomputed chain, a removed last entry, signature or attachment shows even on an
+ * unsigned record. Not append-only: the MAC, not a trigger, is what protects it.
+ */
+export const recordSeals = sqliteTable('record_seals', {
+  codeId: text('code_id')
+    .primaryKey()
+    .references(() => codes.id),
+  entries: integer('entries').notNull(),
+  head: text('head').notNull(),
+  signatures: integer('signatures').notNull(),
+  attachments: text('attachments').notNull(),
+  mac: text('mac').notNull(),
+  sealedAt: text('sealed_at').notNull(),
+});

@@ -37,7 +37,11 @@ export const sessions = sqliteTable(
   (t) => [index('sessions_user_idx').on(t.userId), index('sessions_expires_idx').on(t.expiresAt)],
 );
 
-/** Failed sign-ins by the username typed (whether or not it exists), for the per-account limit. */
+/**
+ * Real password failures (a wrong sign-in, or a wrong password typed again to sign), by the
+ * username typed (whether or not it exists) and the client address: the per-address lock, the
+ * per-account limit and the back-off per account and address all count these rows.
+ */
 export const loginFailures = sqliteTable(
   'login_failures',
   {
@@ -46,6 +50,26 @@ export const loginFailures = sqliteTable(
     at: integer('at').notNull(),
     ip: text('ip'),
   },
-  (t) => [index('login_failures_username_at_idx').on(t.username, t.at)],
+  (t) => [
+    index('login_failures_username_at_idx').on(t.username, t.at),
+    index('login_failures_ip_at_idx').on(t.ip, t.at),
+    index('login_failures_at_idx').on(t.at),
+  ],
+);
+
+/**
+ * Devices a person has signed in from (a random id in an HttpOnly cookie, kept here as its
+ * SHA-256): the per-account limit does not hold them back, so failures from elsewhere cannot
+ * lock the owner out of the device they use.
+ */
+export const knownDevices = sqliteTable(
+  'known_devices',
+  {
+    deviceHash: text('device_hash').notNull(),
+    /** The username as typed at sign-in, lower-cased (the key the failures use). */
+    username: text('username').notNull(),
+    lastSeenAt: integer('last_seen_at').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.deviceHash, t.username] })],
 );
 

@@ -96,6 +96,9 @@ describe('classifyAck', () => {
     expect(classifyAck({ ok: false, status: 503, error: 'x' })).toBe('retry');
     expect(classifyAck(null)).toBe('retry');
   });
+  it('keeps and resends after the session ended (401): the tap is sent once the person signs in again', () => {
+    expect(classifyAck({ ok: false, status: 401, error: 'Your session has ended' })).toBe('retry');
+  });
   it('marks refused on a 4xx, so a person sees it', () => {
     expect(classifyAck({ ok: false, status: 400, error: 'bad' })).toBe('refused');
     expect(classifyAck({ ok: false, status: 403, error: 'role' })).toBe('refused');

@@ -62,8 +62,9 @@ export type AckOutcome = 'stored' | 'retry' | 'refused';
 
 /**
  * What an acknowledgement means for the outbox. Stored (new or a repeat): remove it. A server
- * error or no answer: keep it and send again. Any other refusal (bad input, role, no such
- * code): keep it, marked, for a person to see; sending it again would get the same answer.
+ * error, no answer, or a session that ended (401: it is sent again once the person has signed in
+ * again): keep it and send again. Any other refusal (bad input, role, no such code): keep it,
+ * marked, for a person to see; sending it again would get the same answer.
  */
 export function classifyAck(ack: EntryAddAck | null | undefined): AckOutcome {
   if (!ack || typeof ack !== 'object') return 'retry';
@@ -71,6 +72,7 @@ export function classifyAck(ack: EntryAddAck | null | undefined): AckOutcome {
   if (
     typeof ack.status !== 'number' ||
     ack.status >= 500 ||
+    ack.status === 401 ||
     ack.status === 408 ||
     ack.status === 429
   )

@@ -1,6 +1,6 @@
 import { Button, Field, Input, Stack } from '@chakra-ui/react';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { changePasswordSchema, MIN_PASSWORD_LENGTH, type ChangePasswordRequest } from '@steadyhand/shared';
+import { changePasswordSchema, MIN_PASSWORD_LENGTH, type ChangePasswordRequest, textSchema } from '@steadyhand/shared';
 import { useForm } from 'react-hook-form';
 import { z } from 'zod';
 import { ErrorMessage } from '../../../components/ui/error-message';
@@ -8,7 +8,7 @@ import { isApiError } from '../../../lib/api-client';
 import { useChangePassword } from '../api/account';
 
 const formSchema = changePasswordSchema
-  .extend({ repeat: z.string() })
+  .extend({ repeat: textSchema() })
   .refine((v) => v.repeat === v.newPassword, { path: ['repeat'], message: 'The two new passwords differ' });
 type FormValues = z.infer<typeof formSchema>;
 

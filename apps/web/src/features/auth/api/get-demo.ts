@@ -1,17 +1,18 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
+import { textSchema } from '@steadyhand/shared';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
 
 const demoAccountSchema = z.object({
-  username: z.string(),
-  displayName: z.string(),
+  username: textSchema(),
+  displayName: textSchema(),
   // Plain strings, so a role this build does not know yet cannot hide the whole panel.
-  roles: z.array(z.string()),
+  roles: z.array(textSchema()),
 });
 
 const demoInfoSchema = z.object({
   enabled: z.boolean(),
-  password: z.string().optional(),
+  password: textSchema().optional(),
   accounts: z.array(demoAccountSchema).optional(),
 });
 

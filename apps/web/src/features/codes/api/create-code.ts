@@ -1,10 +1,10 @@
-import type { CreateCodeRequest } from '@steadyhand/shared';
+import { textSchema, type CreateCodeRequest } from '@steadyhand/shared';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { useRef } from 'react';
 import { z } from 'zod';
 import { api, isApiError } from '../../../lib/api-client';
 
-const createCodeResponseSchema = z.object({ code: z.looseObject({ id: z.string() }) });
+const createCodeResponseSchema = z.object({ code: z.looseObject({ id: textSchema() }) });
 
 export type CreatedCode = z.infer<typeof createCodeResponseSchema>['code'];
 

@@ -1,14 +1,14 @@
-import { CODE_CATEGORIES } from '@steadyhand/shared';
+import { CODE_CATEGORIES, textSchema } from '@steadyhand/shared';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
 
 // Only what the list shows; the full code comes from GET /api/codes/:id on the record page.
 const codeListItemSchema = z.object({
-  id: z.string(),
-  location: z.string().nullish(),
+  id: textSchema(),
+  location: textSchema().nullish(),
   category: z.enum(CODE_CATEGORIES),
-  arrestAt: z.string(),
+  arrestAt: textSchema(),
 });
 const codesResponseSchema = z.object({ codes: z.array(codeListItemSchema) });
 

@@ -2,14 +2,15 @@ import { Button, Field, Grid, Heading, Input, NativeSelect, Stack, Textarea } fr
 import { zodResolver } from '@hookform/resolvers/zod';
 import type { ReconciliationView } from '@steadyhand/shared';
 import { useForm } from 'react-hook-form';
+import { textSchema } from '@steadyhand/shared';
 import { z } from 'zod';
 import { ErrorMessage } from '../../../components/ui/error-message';
 import { useAddReconciliationAddendum } from '../api/pharmacy-api';
 
 const schema = z
   .object({
-    text: z.string().trim().min(1, 'say what the addendum is about').max(2000),
-    drugKey: z.string(),
+    text: textSchema().trim().min(1, 'say what the addendum is about').max(2000),
+    drugKey: textSchema(),
     unitsOpened: z.number().int().min(0).max(500).or(z.nan()),
     unitsWasted: z.number().int().min(0).max(500).or(z.nan()),
   })

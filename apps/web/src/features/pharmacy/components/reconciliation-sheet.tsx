@@ -9,6 +9,7 @@ import {
   type ReconciledDrug,
   type ReconciliationLineInput,
   type ReconciliationView,
+  textSchema,
 } from '@steadyhand/shared';
 import { useMemo, useState } from 'react';
 import { useForm, useWatch, type UseFormRegister } from 'react-hook-form';
@@ -23,14 +24,14 @@ import { SignOffDialog } from './sign-off-dialog';
 const count = z.number({ error: 'enter a number' }).int('whole units').min(0, 'not below 0').max(500);
 const lineSchema = z
   .object({
-    drugKey: z.string(),
+    drugKey: textSchema(),
     unitsOpened: count,
     unitsWasted: count,
-    wasteWitness: z.string().max(120),
-    lotNumbers: z.string().max(200),
+    wasteWitness: textSchema().max(120),
+    lotNumbers: textSchema().max(200),
   })
   .refine((l) => l.unitsWasted <= l.unitsOpened, { message: 'more wasted than opened', path: ['unitsWasted'] });
-const sheetSchema = z.object({ notes: z.string().max(4000), trayId: z.string(), lines: z.array(lineSchema) });
+const sheetSchema = z.object({ notes: textSchema().max(4000), trayId: textSchema(), lines: z.array(lineSchema) });
 type SheetValues = z.infer<typeof sheetSchema>;
 
 const nullIfBlank = (s: string) => (s.trim() === '' ? null : s.trim());

@@ -1,4 +1,4 @@
-import { Button, Code, Heading, HStack, Stack, Text } from '@chakra-ui/react';
+import { Button, Code, Heading, HStack, List, Stack, Text } from '@chakra-ui/react';
 import type { RecordView } from '@steadyhand/shared';
 import { Link as RouterLink } from 'react-router';
 import { paths } from '../../../config/paths';
@@ -34,6 +34,22 @@ export function RecordIntegrity({ view }: { view: RecordView }) {
           ? `✓ Entry chain intact: ${view.chain.length} entries, each hash covering the one before.`
           : `✕ Entry chain broken${view.chain.brokenAt ? ` at entry ${view.chain.brokenAt.position}: ${view.chain.brokenAt.reason}` : ''}. Tell the administrator: the log may have been altered outside Steadyhand.`}
       </Text>
+      {view.integrity.valid ? (
+        <Text textStyle="sm" fontWeight="bold" color="seaglass.700" data-testid="record-check" data-valid="true">
+          ✓ Record check: the server’s seal, every signature and every attachment file verify.
+        </Text>
+      ) : (
+        <Stack gap="1" data-testid="record-check" data-valid="false" role="alert">
+          <Text textStyle="sm" fontWeight="bold" color="alarm.700">
+            ✕ Record check failed: this record was changed outside Steadyhand. Tell the administrator.
+          </Text>
+          <List.Root textStyle="sm" color="alarm.700" ps="5">
+            {view.integrity.problems.map((p) => (
+              <List.Item key={p}>{p}</List.Item>
+            ))}
+          </List.Root>
+        </Stack>
+      )}
       <HStack gap="3" wrap="wrap">
         <Button asChild colorPalette="brand" size="lg">
           <a href={recordPdfHref(view.record.code.id)} download data-testid="record-pdf">

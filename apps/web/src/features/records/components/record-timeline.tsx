@@ -32,6 +32,8 @@ export function RecordTimeline({ view, protocol, onCorrect }: RecordTimelineProp
     [record.entries],
   );
   const who = (userId: string | undefined) => (userId ? (people[userId] ?? 'Unknown person') : '—');
+  // The name kept with the stored entry when it was written comes first, as on the PDF.
+  const writerOf = (id: string, userId: string | undefined) => byId.get(id)?.userName ?? who(userId);
   const recordedAt = (id: string) => {
     const stored = byId.get(id);
     return stored?.recordedAt ? formatClockTime(stored.recordedAt) : '';
@@ -95,7 +97,7 @@ export function RecordTimeline({ view, protocol, onCorrect }: RecordTimelineProp
                     ) : null}
                     {row.amendments.map((a) => (
                       <Text key={a.id} data-testid="timeline-amendment">
-                        <strong>Corrected</strong> at {recordedAt(a.id)} by {who(a.userId)}:{' '}
+                        <strong>Corrected</strong> at {recordedAt(a.id)} by {writerOf(a.id, a.userId)}:{' '}
                         {a.reason}
                         {byId.get(a.id)?.addendum ? ' (addendum)' : ''}
                       </Text>
@@ -103,13 +105,13 @@ export function RecordTimeline({ view, protocol, onCorrect }: RecordTimelineProp
                     {row.voided ? (
                       <Text color="alarm.700" data-testid="timeline-void">
                         <strong>Voided</strong> at {recordedAt(row.voided.id)} by{' '}
-                        {who(row.voided.userId)}: {row.voided.reason}
+                        {writerOf(row.voided.id, row.voided.userId)}: {row.voided.reason}
                         {byId.get(row.voided.id)?.addendum ? ' (addendum)' : ''}
                       </Text>
                     ) : null}
                   </Stack>
                 </Table.Cell>
-                <Table.Cell>{who(stored?.userId)}</Table.Cell>
+                <Table.Cell>{writerOf(row.id, stored?.userId)}</Table.Cell>
                 <Table.Cell>
                   <Text textStyle="sm" fontFamily="mono">
                     {row.deviceId ?? '—'}

@@ -12,7 +12,7 @@ import {
   Textarea,
 } from '@chakra-ui/react';
 import { zodResolver } from '@hookform/resolvers/zod';
-import { END_OUTCOME_CHOICES, OUTCOMES, type RecordCode, type ReviewDetailsRequest } from '@steadyhand/shared';
+import { END_OUTCOME_CHOICES, OUTCOMES, type RecordCode, type ReviewDetailsRequest, textSchema } from '@steadyhand/shared';
 import { useState } from 'react';
 import { useFieldArray, useForm } from 'react-hook-form';
 import { z } from 'zod';
@@ -22,24 +22,24 @@ import { useSaveReviewDetails } from '../api/records-api';
 
 // The form holds text; blanks mean "not recorded". The server's schema checks the request again.
 const formSchema = z.object({
-  patientName: z.string().trim().max(120),
-  mrn: z.string().trim().max(40),
+  patientName: textSchema().trim().max(120),
+  mrn: textSchema().trim().max(40),
   birthDate: z.union([
     z.literal(''),
     z.iso.date({ message: 'Birth date: use the date picker, or leave it empty' }),
   ]),
   sex: z.enum(['', 'female', 'male', 'unknown']),
-  location: z.string().trim().max(120),
+  location: textSchema().trim().max(120),
   outcome: z.enum(OUTCOMES),
   team: z
     .array(
       z.object({
-        name: z.string().trim().min(1, 'Name is required').max(120),
-        role: z.string().trim().min(1, 'Role is required').max(60),
+        name: textSchema().trim().min(1, 'Name is required').max(120),
+        role: textSchema().trim().min(1, 'Role is required').max(60),
       }),
     )
     .max(40),
-  debriefNotes: z.string().max(5000),
+  debriefNotes: textSchema().max(5000),
 });
 type FormValues = z.infer<typeof formSchema>;
 

@@ -1,4 +1,4 @@
-import { CODE_CATEGORIES } from '@steadyhand/shared';
+import { CODE_CATEGORIES, textSchema } from '@steadyhand/shared';
 import { queryOptions, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useEffect } from 'react';
 import { z } from 'zod';
@@ -6,10 +6,10 @@ import { api } from '../../../lib/api-client';
 import { getLiveLink } from '../../../lib/live/live-socket';
 
 const boardCodeSchema = z.object({
-  id: z.string(),
-  location: z.string().nullish(),
+  id: textSchema(),
+  location: textSchema().nullish(),
   category: z.enum(CODE_CATEGORIES),
-  arrestAt: z.string(),
+  arrestAt: textSchema(),
 });
 const boardResponseSchema = z.object({ codes: z.array(boardCodeSchema) });
 
