@@ -13,3 +13,4 @@ export * from './admin.js';
 export * from './records.js';
 export * from './quality.js';
 export * from './reconciliation.js';
+export * from './backups.js';

@@ -75,6 +75,7 @@ export class CodesRepository {
     insert: Statement<unknown[], { cursor: number }>;
     lastLink: Statement<[string], { position: number; hash: string }>;
     insertLink: Statement<[string, string, number, string, string]>;
+    entryCount: Statement<[string], { n: number }>;
   };
 
   constructor(
@@ -93,6 +94,7 @@ export class CodesRepository {
       // A seek on the (code_id, position) unique index.
       lastLink: sqlite.prepare('SELECT position, hash FROM entry_links WHERE code_id = ? ORDER BY position DESC LIMIT 1'),
       insertLink: sqlite.prepare('INSERT INTO entry_links (entry_id, code_id, position, prev_hash, hash) VALUES (?, ?, ?, ?, ?)'),
+      entryCount: sqlite.prepare('SELECT count(*) AS n FROM entries WHERE code_id = ?'),
     };
   }
 
@@ -246,6 +248,20 @@ export class CodesRepository {
       }
     }
     return { added, codes: linkedCodes, failed };
+  }
+
+  /** Every code's id, oldest first (the backup check walks them all). */
+  allCodeIds(): string[] {
+    return this.database.sqlite.prepare<[], string>('SELECT id FROM codes ORDER BY created_at, id').pluck().all();
+  }
+
+  /** The ids of a code's entries in cursor order: what a device compares its own copy with. */
+  entryIdsOf(codeId: string): string[] {
+    return this.database.sqlite.prepare<[string], string>('SELECT id FROM entries WHERE code_id = ? ORDER BY cursor').pluck().all(codeId);
+  }
+
+  entryCount(codeId: string): number {
+    return this.hot.entryCount.get(codeId)?.n ?? 0;
   }
 
   entriesOf(codeId: string, afterCursor = 0): StoredEntry[] {

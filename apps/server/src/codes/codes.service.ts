@@ -26,12 +26,16 @@ export class CodesService {
     @Inject(AuditService) private readonly audit: AuditService,
   ) {}
 
-  /** Starts a code. A retried start with the same device-made id returns the code already started. */
-  create(user: SessionUser, input: CreateCodeRequest & { category: 'adult' | 'pediatric' }): { code: Code; created: boolean } {
+  /**
+   * Starts a code. A retried start with the same device-made id returns the code already started.
+   * `refill`: a device starts again a code the server does not know (restored from an older copy),
+   * with the id and details it kept; whoever started it, a code that exists is answered as it is.
+   */
+  create(user: SessionUser, input: CreateCodeRequest & { category: 'adult' | 'pediatric' }, options: { refill?: boolean } = {}): { code: Code; created: boolean } {
     if (input.id) {
       const existing = this.repo.findCode(input.id);
       if (existing) {
-        if (existing.createdBy !== user.id) throw new ConflictException(`Code ${input.id} already exists`);
+        if (existing.createdBy !== user.id && !options.refill) throw new ConflictException(`Code ${input.id} already exists`);
         return { code: existing, created: false };
       }
     }
@@ -48,7 +52,13 @@ export class CodesService {
       createdAt: now,
       createdBy: user.id,
     });
-    this.audit.record({ action: 'code.created', userId: user.id, username: user.username, codeId: code.id, detail: { category: code.category } });
+    this.audit.record({
+      action: options.refill ? 'code.refilled' : 'code.created',
+      userId: user.id,
+      username: user.username,
+      codeId: code.id,
+      detail: options.refill ? { category: code.category, arrestAt: code.arrestAt, from: 'device' } : { category: code.category },
+    });
     this.events.emitCodesChanged(code.id);
     return { code, created: true };
   }
