@@ -152,7 +152,7 @@ describe('db:backup and db:restore against the built server', () => {
     expect(restored.code, restored.stderr).toBe(0);
     const kept = /kept as (.+)\n/.exec(restored.stdout)?.[1];
     expect(kept && existsSync(kept)).toBe(true);
-    const replaced = new Database(kept!, { readonly: true });
+    const replaced = new Database(kept, { readonly: true });
     expect(replaced.prepare('SELECT count(*) FROM entries WHERE code_id = ?').pluck().get(codeId)).toBe(3);
     replaced.close();
 
