@@ -14,6 +14,10 @@ export const patientSchema = z.object({
 });
 export type Patient = z.infer<typeof patientSchema>;
 
+/** How a weight was obtained; shown beside it, since every weight-based dose depends on it. */
+export const WEIGHT_SOURCES = ['measured', 'stated', 'length-tape', 'estimated-age'] as const;
+export type WeightSource = (typeof WEIGHT_SOURCES)[number];
+
 export const createCodeSchema = z
   .object({
     location: z.string().trim().max(120).optional(),
@@ -21,6 +25,7 @@ export const createCodeSchema = z
     patient: patientSchema.optional(),
     category: z.enum(CODE_CATEGORIES).default('adult'),
     weightKg: z.number().positive('weightKg must be above 0').max(250, 'weightKg above 250 is not plausible').optional(),
+    weightSource: z.enum(WEIGHT_SOURCES).optional(),
     arrestAt: z.iso.datetime({ offset: true }).optional(),
     /** A device-made id, so a retried start does not open a second code. */
     id: z.uuid().optional(),
@@ -41,6 +46,11 @@ export const codeSchema = z.object({
   createdBy: z.string(),
   endedAt: z.string().nullable(),
   outcome: z.enum(OUTCOMES).nullable(),
+  weightSource: z.enum(WEIGHT_SOURCES).nullable().default(null),
+  /** The protocol version in force when the code started: its timers, doses and record use it. */
+  protocolVersion: z.number().int().positive().nullable().default(null),
+  /** When adult/child was last switched during the code (doses and energies were recalculated). */
+  categoryChangedAt: z.string().nullable().default(null),
 });
 export type Code = z.infer<typeof codeSchema>;
 
@@ -48,7 +58,7 @@ export const listCodesQuerySchema = z.object({
   status: z.enum(CODE_STATUSES).optional(),
 });
 
-/** Details completed during or after the code: where, who, and a pediatric weight. */
+/** Details completed during or after the code: where, who, a pediatric weight, and when the arrest was recognised. */
 export const updateCodeSchema = z
   .object({
     location: z.string().trim().max(120).nullable().optional(),
@@ -56,6 +66,9 @@ export const updateCodeSchema = z
     patient: patientSchema.nullable().optional(),
     category: z.enum(CODE_CATEGORIES).optional(),
     weightKg: z.number().positive('weightKg must be above 0').max(250, 'weightKg above 250 is not plausible').nullable().optional(),
+    weightSource: z.enum(WEIGHT_SOURCES).nullable().optional(),
+    /** When the arrest was recognised, if recording began late: every interval follows it. */
+    arrestAt: z.iso.datetime({ offset: true, message: 'arrestAt must be an ISO 8601 date-time, e.g. 2026-03-04T07:42:10.000Z' }).optional(),
   })
   .strict()
   .refine((v) => Object.keys(v).length > 0, 'Send at least one field to change');

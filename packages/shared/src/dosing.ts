@@ -1,11 +1,13 @@
 import type { CodeCategory } from './codes.js';
+import { doseUnitLabel } from './drug-catalogue.js';
 import type { DoseUnit } from './entries.js';
-import type { DrugDefinition, PerKgRule, ProtocolSettings } from './protocol.js';
+import type { ConcentrationBand, DoseRule, DoseSchedule, DrugDefinition, ProtocolSettings } from './protocol.js';
 
 /**
- * The dosing sheet: the doses and energies the pad and the wall show for one code, computed
- * from the configured protocol alone. Exact numbers stay in the data; only the display strings
- * are rounded, so a later check can always recompute from the same numbers.
+ * The dosing sheet: the doses, limits and energies the pad and the wall show for one code,
+ * computed from the code's protocol version alone. Exact numbers stay in the data; only the
+ * display strings are rounded, so a later check can always recompute from the same numbers.
+ * What has been given so far is the timeline's business (timeline.ts); `nextDose` joins the two.
  */
 
 /** Heaviest weight accepted; matches the limit on `weightKg` when a code is created. */
@@ -21,14 +23,17 @@ export class DosingInputError extends Error {
 export interface DosingInput {
   category: CodeCategory;
   weightKg: number | null;
+  /** Age in months when known (from the birth date): picks age-banded concentrations. */
+  ageMonths?: number | null;
 }
 
 export interface DoseLine {
   /** 1-based: dose 1, dose 2... */
   doseNumber: number;
-  /** True on the last line: every later dose repeats it. */
+  /** True on the last line when that dose may be repeated with no count limit. */
   repeats: boolean;
-  basis: 'per-kg' | 'adult-fixed';
+  /** per-kg: from the weight; fixed: the protocol's amount; fixed-no-weight: a per-kg rule's fixed stand-in. */
+  basis: 'per-kg' | 'fixed' | 'fixed-no-weight';
   unit: DoseUnit;
   /** Exact amount after any cap (the low end for a range rule). */
   amount: number;
@@ -38,7 +43,7 @@ export interface DoseLine {
   display: string;
   perKg: number | null;
   perKgHigh: number | null;
-  /** What the formula gave before the cap. */
+  /** What the formula gave before any cap. */
   uncappedAmount: number | null;
   uncappedAmountHigh: number | null;
   /** Largest single dose configured for this rule; null when none is configured. */
@@ -48,11 +53,18 @@ export interface DoseLine {
   capped: boolean;
   /** e.g. "capped at the 1 mg maximum single dose". */
   capNote: string | null;
-  /** Exact volume at the catalogue concentration; null when no concentration is configured. */
+  /** Exact volume at the concentration shown; null when none is configured. */
   volumeMl: number | null;
   volumeMlHigh: number | null;
-  /** e.g. "2 mL of 0.1 mg/mL". */
+  /** e.g. "2 mL of 0.1 mg/mL (1 mg in 10 mL)". */
   volumeText: string | null;
+}
+
+export interface DrugConcentration {
+  perMl: number;
+  label: string;
+  /** Why this band: "for a pediatric code", "under 3 months"... */
+  why: string;
 }
 
 export interface DrugDosing {
@@ -61,16 +73,34 @@ export interface DrugDosing {
   unit: DoseUnit;
   route: DrugDefinition['route'];
   source: string;
-  concentrationPerMl: number | null;
-  /** e.g. "0.1 mg/mL". */
+  /** Timing in words from the protocol, e.g. "every 3-5 min". */
+  timing: string | null;
+  concentration: DrugConcentration | null;
+  /** e.g. "0.1 mg/mL (1 mg in 10 mL)". */
   concentrationText: string | null;
-  /** Dose 1, dose 2...; the last repeats. Empty when the protocol has no dose for this patient. */
+  /**
+   * Exactly the allowed doses, in order, when the schedule has a limit; otherwise the listed
+   * doses with the last marked `repeats`. Empty when the protocol has no dose for this patient.
+   */
   doses: DoseLine[];
+  /** Length of `doses` when the schedule is limited (by count or by total); null when the last dose repeats freely. */
+  maxDoses: number | null;
+  /** The protocol's own limit on the number of doses; null when only a total (or nothing) limits it. */
+  countLimit: number | null;
+  /** The repeating dose before any cumulative limit, for doses past the listed ones; null when the last does not repeat. */
+  repeatLine: DoseLine | null;
+  /** Most in total in one code, in the drug's unit (the lower of the absolute and per-kg limits); null for none. */
+  maxTotal: number | null;
+  /** e.g. "at most 15 mg/kg (270 mg) in total". */
+  maxTotalText: string | null;
+  /** Notes about this sheet's numbers: no maximum configured, weight unknown, no concentration... */
   notes: string[];
+  /** The drug's own cautions from the protocol. */
+  cautions: string[];
 }
 
 export interface EnergyStep {
-  /** First shock (1-based) this step applies to; with `repeats`, every later shock too. */
+  /** First shock (1-based) of its kind this step applies to; with `repeats`, every later one too. */
   shockNumber: number;
   repeats: boolean;
   synchronized: boolean;
@@ -92,13 +122,15 @@ export interface EnergyPlan {
 }
 
 export interface DosingSheet {
-  /** The guideline edition the configured protocol follows. */
+  /** The guideline edition the code's protocol version follows. */
   edition: string;
   category: CodeCategory;
   weightKg: number | null;
   /** 'weight-needed': a pediatric code without a weight; the sheet then carries no numbers. */
   status: 'ready' | 'weight-needed';
   message: string | null;
+  /** An adult code whose weight says child: shown on the pad and the wall with the offer to switch. */
+  categoryWarning: string | null;
   drugs: DrugDosing[];
   defibrillation: EnergyPlan;
   cardioversion: EnergyPlan;
@@ -107,19 +139,6 @@ export interface DosingSheet {
   /** The configured adult presets; empty for a pediatric code, whose energies are weight-based. */
   shockPresetsJoules: number[];
   cautions: string[];
-}
-
-const UNIT_LABEL: Record<DoseUnit, string> = {
-  mg: 'mg',
-  // Shown as "mcg": "ug" and "µg" are easily misread as "mg".
-  ug: 'mcg',
-  g: 'g',
-  meq: 'mEq',
-  mL: 'mL',
-};
-
-export function doseUnitLabel(unit: DoseUnit): string {
-  return UNIT_LABEL[unit];
 }
 
 /**
@@ -141,6 +160,8 @@ const fmtDose = (x: number): string => String(roundDoseForDisplay(x));
 /** Configured rule numbers and weights are shown as entered, minus float noise. */
 const fmtInput = (x: number): string => String(Number(x.toPrecision(6)));
 const fmtJ = (x: number): string => `${roundJoulesForDisplay(x)} J`;
+/** Floating-point slack when comparing a running total with its limit. */
+const EPSILON = 1e-9;
 
 function rangeText(low: string, high: string | null, suffix: string): string {
   return high === null || high === low ? `${low} ${suffix}` : `${low}–${high} ${suffix}`;
@@ -157,70 +178,121 @@ function checkWeight(weightKg: number | null): void {
   }
 }
 
+export const DOSING_CAUTIONS = {
+  judgment: "This sheet supports the team leader's judgment and does not replace it, the local protocol or licensed clinical practice.",
+  doubleCheck:
+    'Every weight-based dose must be double-checked by a second person before it is given. Confirm the weight and how it was obtained (measured, estimated, or length-based tape).',
+  units: 'Check the concentration and the units before drawing up (mg vs mcg, mg vs mL, 0.1 mg/mL vs 1 mg/mL): a mix-up causes tenfold errors.',
+  device: "Energy settings depend on the defibrillator: the manufacturer's recommended energy comes first. Check synchronised vs unsynchronised mode on the device.",
+  noControl: 'This tool does not set the defibrillator; it only shows settings for the team to consider.',
+} as const;
+
 function buildCautions(settings: ProtocolSettings): string[] {
   return [
-    "This sheet supports the team leader's judgment and does not replace it, the local protocol or licensed clinical practice.",
-    'Every weight-based dose must be double-checked by a second person before it is given. Confirm the weight and how it was obtained (measured, estimated, or length-based tape).',
-    'Check the concentration and the units before drawing up (mg vs mcg, mg vs mL, 0.1 mg/mL vs 1 mg/mL): a mix-up causes tenfold errors.',
-    "Energy settings depend on the defibrillator: the manufacturer's recommended energy comes first. Check synchronized vs unsynchronized mode on the device.",
-    'This tool does not control the defibrillator; it only shows settings for the team to consider.',
+    DOSING_CAUTIONS.judgment,
+    DOSING_CAUTIONS.doubleCheck,
+    DOSING_CAUTIONS.units,
+    DOSING_CAUTIONS.device,
+    DOSING_CAUTIONS.noControl,
     `Values follow the configured protocol (${settings.edition}); check them against the local protocol.`,
   ];
 }
 
-function volumeOf(drug: DrugDefinition, amount: number): number | null {
-  if (drug.unit === 'mL') return amount;
-  return drug.concentrationPerMl === undefined ? null : amount / drug.concentrationPerMl;
+// ------------------------------------------------------------------------------ concentration
+
+function bandFits(band: ConcentrationBand, patient: DosingInput): boolean {
+  if (band.appliesTo !== 'any' && band.appliesTo !== patient.category) return false;
+  const age = patient.ageMonths ?? null;
+  if (band.underAgeMonths !== undefined && age !== null) return age < band.underAgeMonths;
+  if (band.upToWeightKg !== undefined) return patient.weightKg !== null && patient.weightKg <= band.upToWeightKg;
+  // An age band with neither an age nor a weight stand-in to check cannot be chosen.
+  return band.underAgeMonths === undefined;
 }
 
-function concentrationText(drug: DrugDefinition): string | null {
-  if (drug.unit === 'mL' || drug.concentrationPerMl === undefined) return null;
-  return `${fmtInput(drug.concentrationPerMl)} ${UNIT_LABEL[drug.unit]}/mL`;
+function bandWhy(band: ConcentrationBand, patient: DosingInput): string {
+  const age = patient.ageMonths ?? null;
+  if (band.underAgeMonths !== undefined && age !== null) return `under ${fmtInput(band.underAgeMonths)} months of age`;
+  if (band.upToWeightKg !== undefined) {
+    const stand = band.underAgeMonths !== undefined ? ` (age unknown: stands in for under ${fmtInput(band.underAgeMonths)} months)` : '';
+    return `${fmtInput(band.upToWeightKg)} kg or less${stand}`;
+  }
+  return band.appliesTo === 'any' ? 'as supplied' : `for a ${band.appliesTo} code`;
 }
 
-function volumeText(drug: DrugDefinition, low: number | null, high: number | null): string | null {
+/** The concentration a drug is given at for a category when age and weight are not known (reconciliation of mL doses). */
+export function usualConcentration(drug: DrugDefinition, category: CodeCategory): DrugConcentration | null {
+  return chooseConcentration(drug, { category, weightKg: null, ageMonths: null });
+}
+
+function chooseConcentration(drug: DrugDefinition, patient: DosingInput): DrugConcentration | null {
+  const band = drug.concentrations.find((b) => bandFits(b, patient));
+  return band ? { perMl: band.perMl, label: band.label, why: bandWhy(band, patient) } : null;
+}
+
+// ------------------------------------------------------------------------------ dose lines
+
+interface LineContext {
+  drug: DrugDefinition;
+  concentration: DrugConcentration | null;
+  weightKg: number | null;
+}
+
+function volumeOf(ctx: LineContext, amount: number): number | null {
+  if (ctx.drug.unit === 'mL') return amount;
+  return ctx.concentration === null ? null : amount / ctx.concentration.perMl;
+}
+
+function volumeText(ctx: LineContext, low: number | null, high: number | null): string | null {
   if (low === null) return null;
   const ml = rangeText(fmtDose(low), high === null ? null : fmtDose(high), 'mL');
-  const conc = concentrationText(drug);
-  return conc === null ? ml : `${ml} of ${conc}`;
+  return ctx.concentration === null || ctx.drug.unit === 'mL' ? ml : `${ml} of ${ctx.concentration.label}`;
 }
 
-function perKgLine(drug: DrugDefinition, rule: PerKgRule, weightKg: number, index: number, count: number): DoseLine {
-  const u = UNIT_LABEL[drug.unit];
-  const rawLow = rule.perKg * weightKg;
-  const rawHigh = rule.perKgHigh === undefined ? null : rule.perKgHigh * weightKg;
+/** One line of the sheet from one rule; null when the rule cannot give a number (per kg, no weight, no stand-in). */
+function lineOf(ctx: LineContext, rule: DoseRule, doseNumber: number): DoseLine | null {
+  const u = doseUnitLabel(ctx.drug.unit);
+  const weight = ctx.weightKg;
+  let basis: DoseLine['basis'];
+  let rawLow: number;
+  let rawHigh: number | null = null;
+  let formula: string;
+  if (rule.perKg !== undefined && weight !== null) {
+    basis = 'per-kg';
+    rawLow = rule.perKg * weight;
+    rawHigh = rule.perKgHigh === undefined ? null : rule.perKgHigh * weight;
+    const perKgText = rangeText(fmtInput(rule.perKg), rule.perKgHigh === undefined ? null : fmtInput(rule.perKgHigh), `${u}/kg`);
+    formula = `${perKgText} × ${fmtInput(weight)} kg = ${rangeText(fmtDose(rawLow), rawHigh === null ? null : fmtDose(rawHigh), u)}`;
+  } else if (rule.amount !== undefined) {
+    basis = rule.perKg !== undefined ? 'fixed-no-weight' : 'fixed';
+    rawLow = rule.amount;
+    formula =
+      basis === 'fixed-no-weight'
+        ? `weight not known: fixed dose ${fmtDose(rule.amount)} ${u} instead of ${rangeText(fmtInput(rule.perKg ?? 0), rule.perKgHigh === undefined ? null : fmtInput(rule.perKgHigh), `${u}/kg`)}`
+        : `dose ${doseNumber} from the protocol: ${fmtDose(rule.amount)} ${u}`;
+  } else {
+    return null;
+  }
   const max = rule.maxDose ?? null;
   const low = max === null ? rawLow : Math.min(rawLow, max);
   const high = rawHigh === null ? null : max === null ? rawHigh : Math.min(rawHigh, max);
   const lowCapped = max !== null && rawLow > max;
   const highCapped = max !== null && rawHigh !== null && rawHigh > max;
-
-  const perKgText = rangeText(
-    fmtInput(rule.perKg),
-    rule.perKgHigh === undefined ? null : fmtInput(rule.perKgHigh),
-    `${u}/kg`,
-  );
-  const rawText = rangeText(fmtDose(rawLow), rawHigh === null ? null : fmtDose(rawHigh), u);
-  const formula = `${perKgText} × ${fmtInput(weightKg)} kg = ${rawText}`;
-
   let capNote: string | null = null;
   if (max !== null && (lowCapped || highCapped)) {
-    const where = highCapped && !lowCapped ? 'upper end capped' : 'capped';
-    capNote = `${where} at the ${fmtInput(max)} ${u} maximum single dose`;
+    capNote = `${highCapped && !lowCapped ? 'upper end capped' : 'capped'} at the ${fmtInput(max)} ${u} maximum single dose`;
   }
-
-  const volLow = volumeOf(drug, low);
-  const volHigh = high === null ? null : volumeOf(drug, high);
+  const volLow = volumeOf(ctx, low);
+  const volHigh = high === null ? null : volumeOf(ctx, high);
   return {
-    doseNumber: index + 1,
-    repeats: index === count - 1,
-    basis: 'per-kg',
-    unit: drug.unit,
+    doseNumber,
+    repeats: false,
+    basis,
+    unit: ctx.drug.unit,
     amount: low,
     amountHigh: high,
     display: rangeText(fmtDose(low), high === null ? null : fmtDose(high), u),
-    perKg: rule.perKg,
-    perKgHigh: rule.perKgHigh ?? null,
+    perKg: basis === 'per-kg' ? (rule.perKg ?? null) : null,
+    perKgHigh: basis === 'per-kg' ? (rule.perKgHigh ?? null) : null,
     uncappedAmount: rawLow,
     uncappedAmountHigh: rawHigh,
     maxDose: max,
@@ -228,200 +300,230 @@ function perKgLine(drug: DrugDefinition, rule: PerKgRule, weightKg: number, inde
     capped: lowCapped || highCapped,
     capNote,
     volumeMl: volLow,
-    volumeMlHigh: high === null ? null : volHigh,
-    volumeText: volumeText(drug, volLow, high === null ? null : volHigh),
+    volumeMlHigh: volHigh,
+    volumeText: volumeText(ctx, volLow, volHigh),
   };
 }
 
-function adultLine(drug: DrugDefinition, amount: number, index: number, count: number): DoseLine {
-  const u = UNIT_LABEL[drug.unit];
-  const vol = volumeOf(drug, amount);
-  return {
-    doseNumber: index + 1,
-    repeats: index === count - 1,
-    basis: 'adult-fixed',
-    unit: drug.unit,
-    amount,
-    amountHigh: null,
-    display: `${fmtDose(amount)} ${u}`,
-    perKg: null,
-    perKgHigh: null,
-    uncappedAmount: null,
-    uncappedAmountHigh: null,
-    maxDose: null,
-    formula: `adult dose ${index + 1} from the protocol: ${fmtDose(amount)} ${u}`,
-    capped: false,
-    capNote: null,
-    volumeMl: vol,
-    volumeMlHigh: null,
-    volumeText: volumeText(drug, vol, null),
-  };
+/** The cumulative maximum in the drug's unit: the lower of the absolute and the per-kg limit. */
+function cumulativeLimit(schedule: DoseSchedule, weightKg: number | null, unit: string): { total: number | null; text: string | null; note: string | null } {
+  const perKgTotal = schedule.maxTotalPerKg !== undefined && weightKg !== null ? schedule.maxTotalPerKg * weightKg : null;
+  const abs = schedule.maxTotal ?? null;
+  const candidates = [abs, perKgTotal].filter((v): v is number => v !== null);
+  const total = candidates.length === 0 ? null : Math.min(...candidates);
+  let text: string | null = null;
+  if (total !== null) {
+    text =
+      perKgTotal !== null && total === perKgTotal
+        ? `at most ${fmtInput(schedule.maxTotalPerKg ?? 0)} ${unit}/kg (${fmtDose(total)} ${unit}) in total`
+        : `at most ${fmtDose(total)} ${unit} in total`;
+  }
+  const note =
+    schedule.maxTotalPerKg !== undefined && weightKg === null
+      ? `The total is limited to ${fmtInput(schedule.maxTotalPerKg)} ${unit}/kg: enter the weight to check it.`
+      : null;
+  return { total, text, note };
 }
 
-function drugDosing(drug: DrugDefinition, category: CodeCategory, weightKg: number | null): DrugDosing {
+/** Upper bound on the lines one schedule may list, whatever its limits say. */
+const MAX_LISTED_DOSES = 12;
+
+function drugDosing(drug: DrugDefinition, patient: DosingInput): DrugDosing {
   const notes: string[] = [];
-  let doses: DoseLine[];
-  if (category === 'adult') {
-    doses = drug.adultDoses.map((a, i) => adultLine(drug, a, i, drug.adultDoses.length));
-  } else {
-    const rules = drug.pediatric ?? [];
-    // Never fall back to the adult dose for a child: no rule, no number.
-    if (rules.length === 0) notes.push('No pediatric dose is configured for this drug; none is suggested.');
-    doses = weightKg === null ? [] : rules.map((r, i) => perKgLine(drug, r, weightKg, i, rules.length));
-    if (rules.some((r) => r.maxDose === undefined)) {
-      notes.push('No maximum single dose is configured for this drug; check the dose against the adult dose.');
-    }
-  }
-  if (drug.unit !== 'mL' && drug.concentrationPerMl === undefined) {
-    notes.push('No concentration is configured, so no volume is shown.');
-  }
-  return {
+  const concentration = chooseConcentration(drug, patient);
+  const ctx: LineContext = { drug, concentration, weightKg: patient.weightKg };
+  const u = doseUnitLabel(drug.unit);
+  const schedule = patient.category === 'adult' ? drug.adult : drug.pediatric;
+  const base = {
     key: drug.key,
     label: drug.label,
     unit: drug.unit,
     route: drug.route,
     source: drug.source,
-    concentrationPerMl: drug.concentrationPerMl ?? null,
-    concentrationText: concentrationText(drug),
+    concentration,
+    concentrationText: concentration === null || drug.unit === 'mL' ? null : concentration.label,
+    cautions: [...drug.cautions],
+  };
+  if (drug.unit !== 'mL' && concentration === null) notes.push('No concentration is configured for this patient, so no volume is shown.');
+  if (schedule === undefined) {
+    // Never fall back to the adult dose for a child: no rule, no number.
+    notes.push('No pediatric dose is configured for this drug; none is suggested.');
+    return { ...base, timing: null, doses: [], maxDoses: null, countLimit: null, repeatLine: null, maxTotal: null, maxTotalText: null, notes };
+  }
+  if (patient.category === 'pediatric' && schedule.doses.some((r) => r.maxDose === undefined && r.perKg !== undefined)) {
+    notes.push('No maximum single dose is configured for this drug; check the dose against the adult dose.');
+  }
+  const limit = cumulativeLimit(schedule, patient.weightKg, u);
+  if (limit.note) notes.push(limit.note);
+  if (patient.weightKg === null && schedule.doses.some((r) => r.perKg !== undefined && r.amount !== undefined)) {
+    notes.push('Weight not known: the fixed dose is shown. Enter the weight for the weight-based dose.');
+  }
+
+  const bounded = schedule.maxDoses !== undefined || !schedule.repeatLast || limit.total !== null;
+  const doses: DoseLine[] = [];
+  let listedTotal = 0;
+  for (let i = 0; i < MAX_LISTED_DOSES; i++) {
+    if (schedule.maxDoses !== undefined && i >= schedule.maxDoses) break;
+    if (i >= schedule.doses.length && !schedule.repeatLast) break;
+    if (!bounded && i >= schedule.doses.length) break;
+    const rule = schedule.doses[Math.min(i, schedule.doses.length - 1)];
+    if (!rule) break;
+    let line = lineOf(ctx, rule, i + 1);
+    if (line === null) break;
+    if (limit.total !== null && limit.text !== null) {
+      const remaining = limit.total - listedTotal;
+      if (remaining <= EPSILON) break;
+      line = limitLine({ unit: drug.unit, concentration, concentrationText: base.concentrationText, maxTotalText: limit.text }, line, remaining);
+    }
+    doses.push(line);
+    listedTotal += line.amount;
+  }
+  const last = doses[doses.length - 1];
+  if (last && !bounded) last.repeats = true;
+  const lastRule = schedule.doses[schedule.doses.length - 1];
+  const repeatLine = schedule.repeatLast && lastRule ? lineOf(ctx, lastRule, doses.length + 1) : null;
+  return {
+    ...base,
+    timing: schedule.timing ?? null,
     doses,
+    maxDoses: bounded ? doses.length : null,
+    countLimit: schedule.maxDoses ?? (schedule.repeatLast ? null : schedule.doses.length),
+    repeatLine,
+    maxTotal: limit.total,
+    maxTotalText: limit.text,
     notes,
   };
 }
+
+// ------------------------------------------------------------------------------ energies
 
 /** One weight-based energy, limited by `ceiling`; `ceilingNote` says which limit that is. */
 function capEnergy(raw: number, ceiling: number, ceilingNote: string): { joules: number; capped: boolean; capNote: string | null } {
   return raw > ceiling ? { joules: ceiling, capped: true, capNote: ceilingNote } : { joules: raw, capped: false, capNote: null };
 }
 
+function energyStep(step: Omit<EnergyStep, 'display'>): EnergyStep {
+  const display =
+    step.joulesHigh === null ? fmtJ(step.joules) : `${roundJoulesForDisplay(step.joules)}–${fmtJ(step.joulesHigh)}`;
+  return { ...step, display };
+}
+
+/**
+ * Pediatric defibrillation: 2 J/kg, then 4 J/kg, then at least 4 J/kg up to 10 J/kg or the
+ * adult dose, whichever is lower (AHA 2020 PALS). The adult dose is the protocol's adult energy.
+ */
 function pediatricDefibrillation(settings: ProtocolSettings, kg: number): EnergyPlan {
   const pe = settings.pediatricEnergy;
   const w = fmtInput(kg);
   const perKgMax = pe.maxJoulesPerKg * kg;
-  const adultMax = settings.adultMaxJoules;
-  // "Up to 10 J/kg or the adult dose, whichever is lower".
-  const ceiling = Math.min(perKgMax, adultMax);
+  const adult = settings.defaultShockJoules;
+  const ceiling = Math.min(perKgMax, adult);
   const ceilingNote =
-    adultMax < perKgMax
-      ? `capped at the ${fmtJ(adultMax)} adult maximum`
-      : `capped at ${fmtInput(pe.maxJoulesPerKg)} J/kg (${fmtJ(perKgMax)})`;
-
+    adult < perKgMax ? `capped at the ${fmtJ(adult)} adult dose` : `capped at ${fmtInput(pe.maxJoulesPerKg)} J/kg (${fmtJ(perKgMax)})`;
   const firstRaw = pe.firstJoulesPerKg * kg;
   const first = capEnergy(firstRaw, ceiling, ceilingNote);
   const secondRaw = pe.secondJoulesPerKg * kg;
   const second = capEnergy(secondRaw, ceiling, ceilingNote);
-
-  let laterNote: string | null = second.capNote;
-  if (laterNote === null && adultMax < perKgMax) {
-    laterNote = `upper limit capped at the ${fmtJ(adultMax)} adult maximum rather than ${fmtJ(perKgMax)} (${fmtInput(pe.maxJoulesPerKg)} J/kg × ${w} kg)`;
-  }
   const laterHigh = ceiling > second.joules ? ceiling : null;
-
-  const steps: EnergyStep[] = [
-    {
-      shockNumber: 1,
-      repeats: false,
-      synchronized: false,
-      joules: first.joules,
-      joulesHigh: null,
-      display: fmtJ(first.joules),
-      formula: `${fmtInput(pe.firstJoulesPerKg)} J/kg × ${w} kg = ${fmtJ(firstRaw)}`,
-      capped: first.capped,
-      capNote: first.capNote,
-    },
-    {
-      shockNumber: 2,
-      repeats: false,
-      synchronized: false,
-      joules: second.joules,
-      joulesHigh: null,
-      display: fmtJ(second.joules),
-      formula: `${fmtInput(pe.secondJoulesPerKg)} J/kg × ${w} kg = ${fmtJ(secondRaw)}`,
-      capped: second.capped,
-      capNote: second.capNote,
-    },
-    {
-      shockNumber: 3,
-      repeats: true,
-      synchronized: false,
-      joules: second.joules,
-      joulesHigh: laterHigh,
-      display: laterHigh === null ? fmtJ(second.joules) : `${roundJoulesForDisplay(second.joules)}–${fmtJ(laterHigh)}`,
-      formula:
-        `from ${fmtInput(pe.secondJoulesPerKg)} J/kg × ${w} kg = ${fmtJ(secondRaw)}` +
-        ` up to the lower of ${fmtInput(pe.maxJoulesPerKg)} J/kg × ${w} kg = ${fmtJ(perKgMax)} and the ${fmtJ(adultMax)} adult maximum`,
-      capped: laterNote !== null,
-      capNote: laterNote,
-    },
-  ];
+  const laterNote =
+    second.capNote ?? (adult < perKgMax ? `upper limit is the ${fmtJ(adult)} adult dose rather than ${fmtJ(perKgMax)} (${fmtInput(pe.maxJoulesPerKg)} J/kg)` : null);
   return {
     synchronized: false,
-    steps,
+    steps: [
+      energyStep({
+        shockNumber: 1,
+        repeats: false,
+        synchronized: false,
+        joules: first.joules,
+        joulesHigh: null,
+        formula: `${fmtInput(pe.firstJoulesPerKg)} J/kg × ${w} kg = ${fmtJ(firstRaw)}`,
+        capped: first.capped,
+        capNote: first.capNote,
+      }),
+      energyStep({
+        shockNumber: 2,
+        repeats: false,
+        synchronized: false,
+        joules: second.joules,
+        joulesHigh: null,
+        formula: `${fmtInput(pe.secondJoulesPerKg)} J/kg × ${w} kg = ${fmtJ(secondRaw)}`,
+        capped: second.capped,
+        capNote: second.capNote,
+      }),
+      energyStep({
+        shockNumber: 3,
+        repeats: true,
+        synchronized: false,
+        joules: second.joules,
+        joulesHigh: laterHigh,
+        formula:
+          `at least ${fmtInput(pe.secondJoulesPerKg)} J/kg (${fmtJ(secondRaw)}),` +
+          ` up to the lower of ${fmtInput(pe.maxJoulesPerKg)} J/kg × ${w} kg = ${fmtJ(perKgMax)} and the ${fmtJ(adult)} adult dose`,
+        capped: laterNote !== null,
+        capNote: laterNote,
+      }),
+    ],
     note: "Weight-based energies; the device's selectable settings and the manufacturer's recommendation come first.",
   };
 }
 
+/** Pediatric synchronised cardioversion: 0.5-1 J/kg, then 2 J/kg (AHA 2020 Pediatric Tachycardia), never above the adult dose. */
 function pediatricCardioversion(settings: ProtocolSettings, kg: number): EnergyPlan {
   const pe = settings.pediatricEnergy;
   const w = fmtInput(kg);
-  const adultMax = settings.adultMaxJoules;
-  const note = `capped at the ${fmtJ(adultMax)} adult maximum`;
+  const adult = settings.defaultShockJoules;
+  const note = `capped at the ${fmtJ(adult)} adult dose`;
   const lowRaw = pe.cardioversionFirstJoulesPerKg * kg;
   const highRaw = pe.cardioversionFirstJoulesPerKgHigh * kg;
-  const low = capEnergy(lowRaw, adultMax, note);
-  const high = capEnergy(highRaw, adultMax, note);
+  const low = capEnergy(lowRaw, adult, note);
+  const high = capEnergy(highRaw, adult, note);
   const nextRaw = pe.cardioversionNextJoulesPerKg * kg;
-  const next = capEnergy(nextRaw, adultMax, note);
-  const firstHigh = high.joules > low.joules ? high.joules : null;
+  const next = capEnergy(nextRaw, adult, note);
   return {
     synchronized: true,
     steps: [
-      {
+      energyStep({
         shockNumber: 1,
         repeats: false,
         synchronized: true,
         joules: low.joules,
-        joulesHigh: firstHigh,
-        display:
-          firstHigh === null ? fmtJ(low.joules) : `${roundJoulesForDisplay(low.joules)}–${fmtJ(firstHigh)}`,
+        joulesHigh: high.joules > low.joules ? high.joules : null,
         formula:
           `${fmtInput(pe.cardioversionFirstJoulesPerKg)}–${fmtInput(pe.cardioversionFirstJoulesPerKgHigh)} J/kg × ${w} kg` +
           ` = ${roundJoulesForDisplay(lowRaw)}–${fmtJ(highRaw)}`,
         capped: low.capped || high.capped,
         capNote: low.capped ? note : high.capped ? `upper end ${note}` : null,
-      },
-      {
+      }),
+      energyStep({
         shockNumber: 2,
         repeats: true,
         synchronized: true,
         joules: next.joules,
         joulesHigh: null,
-        display: fmtJ(next.joules),
         formula: `${fmtInput(pe.cardioversionNextJoulesPerKg)} J/kg × ${w} kg = ${fmtJ(nextRaw)}`,
         capped: next.capped,
         capNote: next.capNote,
-      },
+      }),
     ],
-    note: 'Synchronized mode: confirm the device marks each QRS before every shock. Raise to the next step if a shock fails.',
+    note: 'Synchronised mode: confirm the device marks each QRS before every shock. Raise to the next step if a shock fails.',
   };
 }
 
 function adultDefibrillation(settings: ProtocolSettings): EnergyPlan {
   const raw = settings.defaultShockJoules;
-  const e = capEnergy(raw, settings.adultMaxJoules, `capped at the ${fmtJ(settings.adultMaxJoules)} adult maximum`);
   return {
     synchronized: false,
     steps: [
-      {
+      energyStep({
         shockNumber: 1,
         repeats: true,
         synchronized: false,
-        joules: e.joules,
+        joules: raw,
         joulesHigh: null,
-        display: fmtJ(e.joules),
         formula: `configured local default: ${fmtJ(raw)}`,
-        capped: e.capped,
-        capNote: e.capNote,
-      },
+        capped: false,
+        capNote: null,
+      }),
     ],
     note:
       `${fmtJ(raw)} is this hospital's configured default, not a universal value. Use the energy the device's manufacturer` +
@@ -436,9 +538,15 @@ function adultCardioversion(settings: ProtocolSettings): EnergyPlan {
     // Adult cardioversion energy depends on the rhythm and the device; the protocol holds no per-rhythm values.
     steps: [],
     note:
-      "Synchronized cardioversion energy depends on the rhythm and the device: follow the manufacturer's recommendation and the local protocol." +
+      "Synchronised cardioversion energy depends on the rhythm and the device: follow the manufacturer's recommendation and the local protocol." +
       ` Presets: ${settings.shockPresetsJoules.map(fmtJ).join(', ')}.`,
   };
+}
+
+/** The warning an adult code gets when its weight says child (configurable threshold, common practice). */
+export function adultWeightWarning(input: DosingInput, settings: ProtocolSettings): string | null {
+  if (input.category !== 'adult' || input.weightKg === null || input.weightKg >= settings.adultWeightWarningKg) return null;
+  return `Weight ${fmtInput(input.weightKg)} kg is under ${fmtInput(settings.adultWeightWarningKg)} kg: if this is a child, switch to a pediatric code for weight-based doses and energies.`;
 }
 
 export function computeDosing(input: DosingInput, settings: ProtocolSettings): DosingSheet {
@@ -447,6 +555,7 @@ export function computeDosing(input: DosingInput, settings: ProtocolSettings): D
   }
   checkWeight(input.weightKg);
   const cautions = buildCautions(settings);
+  const categoryWarning = adultWeightWarning(input, settings);
 
   if (input.category === 'adult') {
     return {
@@ -455,7 +564,8 @@ export function computeDosing(input: DosingInput, settings: ProtocolSettings): D
       weightKg: input.weightKg,
       status: 'ready',
       message: null,
-      drugs: settings.drugs.map((d) => drugDosing(d, 'adult', input.weightKg)),
+      categoryWarning,
+      drugs: settings.drugs.map((d) => drugDosing(d, input)),
       defibrillation: adultDefibrillation(settings),
       cardioversion: adultCardioversion(settings),
       defaultShockJoules: settings.defaultShockJoules,
@@ -474,6 +584,7 @@ export function computeDosing(input: DosingInput, settings: ProtocolSettings): D
       status: 'weight-needed',
       message:
         'Weight needed. Enter the weight (measured, estimated, or from a length-based tape) to see weight-based doses and energies; no weight is assumed.',
+      categoryWarning: null,
       drugs: [],
       defibrillation: { synchronized: false, steps: [], note: needed },
       cardioversion: { synchronized: true, steps: [], note: needed },
@@ -490,7 +601,8 @@ export function computeDosing(input: DosingInput, settings: ProtocolSettings): D
     weightKg: kg,
     status: 'ready',
     message: null,
-    drugs: settings.drugs.map((d) => drugDosing(d, 'pediatric', kg)),
+    categoryWarning: null,
+    drugs: settings.drugs.map((d) => drugDosing(d, input)),
     defibrillation: pediatricDefibrillation(settings, kg),
     cardioversion: pediatricCardioversion(settings, kg),
     defaultShockJoules: null,
@@ -503,6 +615,81 @@ function checkCount(n: number, what: string): void {
   if (!Number.isInteger(n) || n < 0) throw new RangeError(`${what} must be a whole number, 0 or more`);
 }
 
+/** Why the next dose is past the protocol's limit, in words for the button. */
+export interface DoseLimit {
+  kind: 'max-doses' | 'max-total';
+  message: string;
+}
+
+export interface NextDose {
+  /** The dose to suggest; when a limit is reached, the dose a second tap would record. Null when the sheet has none. */
+  line: DoseLine | null;
+  /** Set when the protocol's limit is reached: the pad asks for a second tap. */
+  limit: DoseLimit | null;
+}
+
+/**
+ * The dose to suggest after `given` doses totalling `givenTotal` (in the drug's unit) of one
+ * drug, against the sheet's list and limits.
+ */
+export function nextDose(drug: DrugDosing, given: { count: number; total: number }): NextDose {
+  checkCount(given.count, 'given.count');
+  const u = doseUnitLabel(drug.unit);
+  const last = drug.doses[drug.doses.length - 1] ?? null;
+  if (last === null) return { line: null, limit: null };
+  const plural = (n: number) => (n === 1 ? 'dose' : 'doses');
+  if (drug.countLimit !== null && given.count >= drug.countLimit) {
+    return { line: last, limit: { kind: 'max-doses', message: `Limit reached: ${given.count} of ${drug.countLimit} ${plural(drug.countLimit)} given` } };
+  }
+  if (drug.maxTotal !== null && given.total >= drug.maxTotal - EPSILON) {
+    return {
+      line: drug.repeatLine ?? last,
+      limit: { kind: 'max-total', message: `Limit reached: ${fmtDose(given.total)} ${u} given, ${drug.maxTotalText ?? 'the total allowed'}` },
+    };
+  }
+  const listed = given.count < drug.doses.length ? drug.doses[given.count] : drug.repeatLine;
+  if (!listed) return { line: last, limit: { kind: 'max-doses', message: `Limit reached: ${given.count} ${plural(given.count)} given` } };
+  const numbered = { ...listed, doseNumber: given.count + 1 };
+  // The list assumed its own doses were given; the next one is limited by what is really left.
+  if (drug.maxTotal === null) return { line: numbered, limit: null };
+  return { line: limitLine(drug, numbered, drug.maxTotal - given.total), limit: null };
+}
+
+/** The rule's own amount, limited to what is left of the cumulative maximum. */
+function limitLine(
+  drug: Pick<DrugDosing, 'unit' | 'concentration' | 'concentrationText' | 'maxTotalText'>,
+  line: DoseLine,
+  remaining: number,
+): DoseLine {
+  const u = doseUnitLabel(drug.unit);
+  const ruleLow = line.uncappedAmount === null ? line.amount : Math.min(line.uncappedAmount, line.maxDose ?? Infinity);
+  const ruleHigh = line.uncappedAmountHigh === null ? null : Math.min(line.uncappedAmountHigh, line.maxDose ?? Infinity);
+  const low = Math.min(ruleLow, remaining);
+  const highRaw = ruleHigh === null ? null : Math.min(ruleHigh, remaining);
+  const high = highRaw === null || highRaw === low ? null : highRaw;
+  const perMl = drug.concentration?.perMl ?? null;
+  const vol = (x: number | null) => (x === null ? null : drug.unit === 'mL' ? x : perMl === null ? null : x / perMl);
+  const limited = ruleLow > remaining + EPSILON || (ruleHigh !== null && ruleHigh > remaining + EPSILON);
+  return {
+    ...line,
+    amount: low,
+    amountHigh: high,
+    display: rangeText(fmtDose(low), high === null ? null : fmtDose(high), u),
+    capped: limited || line.amount !== line.uncappedAmount,
+    capNote: limited
+      ? `limited to the ${fmtDose(remaining)} ${u} left of ${drug.maxTotalText ?? 'the total allowed'}`
+      : ruleLow < (line.uncappedAmount ?? ruleLow)
+        ? `capped at the ${fmtDose(line.maxDose ?? ruleLow)} ${u} maximum single dose`
+        : null,
+    volumeMl: vol(low),
+    volumeMlHigh: vol(high),
+    volumeText:
+      vol(low) === null
+        ? null
+        : `${rangeText(fmtDose(vol(low) ?? 0), high === null ? null : fmtDose(vol(high) ?? 0), 'mL')}${drug.unit !== 'mL' && drug.concentrationText ? ` of ${drug.concentrationText}` : ''}`,
+  };
+}
+
 /** Picks the step for the next event: the steps run in order and the last one repeats. */
 function stepAt<T>(steps: readonly T[], soFar: number): T | null {
   if (steps.length === 0) return null;
@@ -510,27 +697,16 @@ function stepAt<T>(steps: readonly T[], soFar: number): T | null {
 }
 
 /**
- * The dose to suggest after `dosesGivenSoFar` doses of `drugKey` (0 = the first dose).
- * Null when the drug is not on the sheet or the sheet has no dose for it (e.g. weight needed).
- */
-export function nextDoseFor(sheet: DosingSheet, drugKey: string, dosesGivenSoFar: number): DoseLine | null {
-  checkCount(dosesGivenSoFar, 'dosesGivenSoFar');
-  const drug = sheet.drugs.find((d) => d.key === drugKey);
-  return drug === undefined ? null : stepAt(drug.doses, dosesGivenSoFar);
-}
-
-/**
- * The energy step to suggest after `shocksSoFar` shocks (0 = the first shock): `joules` is the
- * value to suggest, `joulesHigh` the upper limit when the step is a range. Pediatric codes
- * escalate by weight; adult codes get the configured default for every shock. Null when the
- * sheet holds no energies (pediatric code without a weight, or adult cardioversion).
+ * The energy step to suggest after `soFar` shocks of the same kind (defibrillations and
+ * cardioversions are counted apart). Null when the sheet holds no energies (pediatric code
+ * without a weight, or adult cardioversion).
  */
 export function nextShockJoules(
   sheet: DosingSheet,
-  shocksSoFar: number,
+  soFar: number,
   mode: 'defibrillation' | 'cardioversion' = 'defibrillation',
 ): EnergyStep | null {
-  checkCount(shocksSoFar, 'shocksSoFar');
+  checkCount(soFar, 'soFar');
   const plan = mode === 'cardioversion' ? sheet.cardioversion : sheet.defibrillation;
-  return stepAt(plan.steps, shocksSoFar);
+  return stepAt(plan.steps, soFar);
 }

@@ -34,8 +34,15 @@ export const DRUG_ROUTES = ['iv', 'io', 'et', 'other'] as const;
 export const AIRWAY_DEVICES = ['bag-mask', 'supraglottic', 'endotracheal'] as const;
 export const AIRWAY_CONFIRMATIONS = ['waveform-capnography', 'colorimetric', 'auscultation', 'other'] as const;
 export const ACCESS_ROUTES = ['iv', 'io'] as const;
-export const OUTCOMES = ['sustained-rosc', 'died', 'transferred', 'other'] as const;
+/**
+ * How a code ended. `rosc`: ended in ROSC and care handed over. `sustained-rosc` is the older
+ * word for the same and is still accepted; whether ROSC was sustained (20 min) is computed
+ * from the log, so the choices offered never say it.
+ */
+export const OUTCOMES = ['sustained-rosc', 'rosc', 'died', 'transferred', 'other'] as const;
 export type Outcome = (typeof OUTCOMES)[number];
+/** The outcomes the pad and the review offer. */
+export const END_OUTCOME_CHOICES = ['rosc', 'died', 'transferred', 'other'] as const satisfies readonly Outcome[];
 
 const isoTime = z.iso.datetime({ offset: true, message: 'must be an ISO 8601 date-time, e.g. 2026-03-04T07:42:10.000Z' });
 

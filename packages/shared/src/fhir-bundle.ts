@@ -1,10 +1,8 @@
 import type { Code } from './codes.js';
 import type { DoseUnit } from './entries.js';
-import { liveEntries, entryTimeMs, type EffectiveEntry, type LogEntry } from './effective-log.js';
-import { resolveDrug } from './live-state.js';
-import type { ProtocolSettings } from './protocol.js';
 import type { SignatureMeaning } from './records.js';
 import type { CodeSummary } from './summary.js';
+import type { Timeline } from './timeline.js';
 
 /**
  * One signed code as an HL7 FHIR R4 document Bundle, for the hospital record system. Pure: the
@@ -82,12 +80,12 @@ export interface FhirSignatureInput {
 
 export interface FhirBundleInput {
   code: Pick<Code, 'id' | 'arrestAt' | 'endedAt' | 'location' | 'patient' | 'category'>;
-  entries: readonly LogEntry[];
+  /** The code's folded log (the same one the summary was made from). */
+  timeline: Timeline;
   summary: CodeSummary;
   signatures: readonly FhirSignatureInput[];
   facility: string;
   unitName: string | null;
-  settings: ProtocolSettings;
   /** When the bundle is made (Bundle.timestamp, Composition.date). */
   generatedAt: string;
   /** A new UUID each call (crypto.randomUUID on the server). */
@@ -110,8 +108,8 @@ const base64 = (b64url: string) => {
 
 export function buildFhirBundle(input: FhirBundleInput): FhirBundle {
   const { code, summary, newId } = input;
-  const live = liveEntries(input.entries);
-  const at = (e: EffectiveEntry) => new Date(entryTimeMs(e)).toISOString();
+  const { timeline } = input;
+  const at = (e: { atMs: number }) => new Date(e.atMs).toISOString();
   const resources: (Json & { resourceType: string; id: string })[] = [];
   const add = <T extends Json & { resourceType: string; id: string }>(r: T): T => {
     resources.push(r);
@@ -173,8 +171,7 @@ export function buildFhirBundle(input: FhirBundleInput): FhirBundle {
     });
     procedures.push(cpr.id);
   }
-  for (const e of live) {
-    if (e.kind !== 'shock') continue;
+  for (const e of timeline.shocks) {
     const text = e.synchronized ? 'Synchronised cardioversion' : 'Defibrillation (unsynchronised shock)';
     add({
       resourceType: 'Procedure',
@@ -191,10 +188,8 @@ export function buildFhirBundle(input: FhirBundleInput): FhirBundle {
   }
 
   const medications: string[] = [];
-  for (const e of live) {
-    if (e.kind !== 'drug') continue;
-    const def = resolveDrug(input.settings, e.drug);
-    const rx = def ? RXNORM_BY_DRUG[def.key] : undefined;
+  for (const e of timeline.doses) {
+    const rx = e.inCatalogue ? RXNORM_BY_DRUG[e.key] : undefined;
     const ucum = UCUM_DOSE[e.unit];
     add({
       resourceType: 'MedicationAdministration',
@@ -202,7 +197,7 @@ export function buildFhirBundle(input: FhirBundleInput): FhirBundle {
       status: 'completed',
       medicationCodeableConcept: {
         ...(rx ? { coding: [{ system: FHIR_SYSTEMS.rxnorm, code: rx.code, display: rx.display }] } : {}),
-        text: def?.label ?? e.drug,
+        text: e.label,
       },
       subject,
       context: encounter,
@@ -217,35 +212,35 @@ export function buildFhirBundle(input: FhirBundleInput): FhirBundle {
 
   const observations: string[] = [];
   const category = (code: string, display: string) => [{ coding: [{ system: FHIR_SYSTEMS.observationCategory, code, display }] }];
-  for (const e of live) {
-    if (e.kind === 'rhythm') {
-      add({
-        resourceType: 'Observation',
-        id: e.id,
-        status: 'final',
-        category: category('exam', 'Exam'),
-        code: { text: 'Cardiac rhythm at rhythm check' },
-        subject,
-        encounter,
-        effectiveDateTime: at(e),
-        valueCodeableConcept: { text: RHYTHM_TEXT[e.rhythm] ?? e.rhythm },
-        component: [{ code: { text: 'Pulse present' }, valueBoolean: e.pulse }],
-      });
-      observations.push(e.id);
-    } else if (e.kind === 'etco2') {
-      add({
-        resourceType: 'Observation',
-        id: e.id,
-        status: 'final',
-        category: category('vital-signs', 'Vital Signs'),
-        code: { coding: [{ system: FHIR_SYSTEMS.loinc, ...LOINC_ETCO2 }], text: 'ETCO2' },
-        subject,
-        encounter,
-        effectiveDateTime: at(e),
-        valueQuantity: { value: e.mmHg, unit: 'mmHg', system: FHIR_SYSTEMS.ucum, code: 'mm[Hg]' },
-      });
-      observations.push(e.id);
-    }
+  for (const e of timeline.rhythmChecks) {
+    add({
+      resourceType: 'Observation',
+      id: e.id,
+      status: 'final',
+      category: category('exam', 'Exam'),
+      code: { text: 'Cardiac rhythm at rhythm check' },
+      subject,
+      encounter,
+      effectiveDateTime: at(e),
+      // An organised rhythm without a pulse is reported as PEA.
+      valueCodeableConcept: { text: RHYTHM_TEXT[e.rhythmClass === 'pea' ? 'pea' : e.rhythm] ?? e.rhythm },
+      component: [{ code: { text: 'Pulse present' }, valueBoolean: e.pulse }],
+    });
+    observations.push(e.id);
+  }
+  for (const e of timeline.etco2) {
+    add({
+      resourceType: 'Observation',
+      id: e.id,
+      status: 'final',
+      category: category('vital-signs', 'Vital Signs'),
+      code: { coding: [{ system: FHIR_SYSTEMS.loinc, ...LOINC_ETCO2 }], text: 'ETCO2' },
+      subject,
+      encounter,
+      effectiveDateTime: at(e),
+      valueQuantity: { value: e.mmHg, unit: 'mmHg', system: FHIR_SYSTEMS.ucum, code: 'mm[Hg]' },
+    });
+    observations.push(e.id);
   }
 
   const meanings = new Set(input.signatures.map((s) => s.meaning));

@@ -4,7 +4,8 @@ import type { LogEntry } from './effective-log.js';
 import { buildFhirBundle } from './fhir-bundle.js';
 import { DEFAULT_PROTOCOL } from './protocol.js';
 import { aggregateQuality, type QualityMetricsRow } from './quality.js';
-import { summarizeCode } from './summary.js';
+import { summarize } from './summary.js';
+import { foldLog } from './timeline.js';
 import { csvField, UTSTEIN_CSV_COLUMNS, utsteinCsv, utsteinRow } from './utstein-csv.js';
 
 let nextId = 1;
@@ -67,14 +68,14 @@ function sampleRecord() {
     e(1500, { kind: 'end', outcome: 'sustained-rosc' }),
   ];
   const code = { id: uuid(), category: 'adult' as const, location: 'Bed 12, "window"', patient: null, arrestAt: ARREST, endedAt: t(1500) };
-  const summary = summarizeCode({ code: { ...code, weightKg: null }, entries, settings: DEFAULT_PROTOCOL });
-  return { code, entries, summary };
+  const timeline = foldLog({ ...code, weightKg: null }, entries, DEFAULT_PROTOCOL);
+  return { code, timeline, summary: summarize(timeline) };
 }
 
 describe('Utstein CSV', () => {
   it('writes the documented columns in order, one row per code', () => {
-    const { code, entries, summary } = sampleRecord();
-    const row = utsteinRow({ code, entries, summary, unitName: '4 West Medical', facility: 'Harbourview General Hospital' });
+    const { code, summary } = sampleRecord();
+    const row = utsteinRow({ code, summary, unitName: '4 West Medical', facility: 'Harbourview General Hospital' });
     const csv = utsteinCsv([row, row]);
     const lines = csv.trimEnd().split('\r\n');
     expect(lines).toHaveLength(3);
@@ -105,10 +106,10 @@ describe('Utstein CSV', () => {
 
 describe('FHIR document bundle', () => {
   it('puts the Composition first, references every resource and uses the sheet\'s codes', () => {
-    const { code, entries, summary } = sampleRecord();
+    const { code, timeline, summary } = sampleRecord();
     let n = 0;
     const bundle = buildFhirBundle({
-      code, entries, summary, settings: DEFAULT_PROTOCOL, facility: 'Harbourview General Hospital', unitName: '4 West Medical',
+      code, timeline, summary, facility: 'Harbourview General Hospital', unitName: '4 West Medical',
       signatures: [{ printedName: 'Maren Holt, RN', meaning: 'recorded-by', signedAt: t(1600), serverSignature: 'ab-_' }],
       generatedAt: t(1700),
       newId: () => `10000000-0000-4000-8000-${String(++n).padStart(12, '0')}`,

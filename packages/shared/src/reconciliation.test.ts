@@ -16,7 +16,7 @@ import {
   type ReconciliationLineInput,
   type TrayItem,
 } from './reconciliation.js';
-import { summarizeCode } from './summary.js';
+import { summarizeLog } from './summary.js';
 
 // Tray strengths below are common practice for an adult code-cart tray, no published source
 // (prefilled syringes and vials as commonly stocked in North American hospitals).
@@ -71,14 +71,14 @@ describe('reconcileDrugs: the discrepancy rules on worked cases', () => {
 
   it('balances 300 + 150 mg of amiodarone against three opened 150 mg vials', () => {
     // 300 mg then 150 mg: AHA 2020 Adult Cardiac Arrest Algorithm.
-    const drugTotals = summarizeCode({
-      code: { arrestAt: '2026-03-04T07:42:10.000Z', endedAt: null, category: 'adult', weightKg: null },
-      entries: [
+    const drugTotals = summarizeLog(
+      { arrestAt: '2026-03-04T07:42:10.000Z', endedAt: null, category: 'adult', weightKg: null },
+      [
         { id: '00000000-0000-4000-8000-000000000001', kind: 'drug', at: '2026-03-04T07:50:00.000Z', drug: 'amiodarone', dose: 300, unit: 'mg', route: 'iv' },
         { id: '00000000-0000-4000-8000-000000000002', kind: 'drug', at: '2026-03-04T07:56:00.000Z', drug: 'Amiodarone', dose: 150, unit: 'mg', route: 'iv' },
       ] satisfies LogEntry[],
-      settings: DEFAULT_PROTOCOL,
-    }).drugTotals;
+      DEFAULT_PROTOCOL,
+    ).drugTotals;
     const rows = reconcileDrugs({ drugTotals, items: [AMIO], lines: [line('amiodarone', 3)], settings: DEFAULT_PROTOCOL });
     expect(one(rows, 'amiodarone')).toMatchObject({ given: 450, available: 450, leftover: 0, doses: 2, flagged: false });
     expect(kinds(one(rows, 'amiodarone'))).toEqual(['balanced']);

@@ -1,11 +1,13 @@
 import { z } from 'zod';
 import { DOSE_UNITS, type DoseUnit } from './entries.js';
-import { resolveDrug } from './live-state.js';
+import { resolveDrug } from './drug-catalogue.js';
+import { usualConcentration } from './dosing.js';
+import type { CodeCategory } from './codes.js';
 import type { ProtocolSettings } from './protocol.js';
 import type { DrugTotal } from './summary.js';
 
 /**
- * Drug reconciliation after a code: what the record says was given (summarizeCode's drug
+ * Drug reconciliation after a code: what the record says was given (the summary's drug
  * totals) against what the pharmacist counts as opened and wasted from the cart's tray.
  * Pure: the server, the web page and the tests run the same rules.
  */
@@ -304,13 +306,15 @@ export function convertToItemUnit(
 }
 
 export interface ReconcileInput {
-  /** summarizeCode(...).drugTotals: per drug and unit, voids and amendments applied. */
+  /** summarize(foldLog(...)).drugTotals: per drug and unit, voids and amendments applied. */
   drugTotals: readonly Pick<DrugTotal, 'drug' | 'label' | 'unit' | 'total' | 'doses'>[];
   /** The tray the cart carries; empty when none is known. */
   items: readonly TrayItem[];
   lines: readonly ReconciliationLineInput[];
-  /** For names and the catalogue's concentrations (mL-only tray items). */
+  /** For names and the catalogue's concentrations (mL-only tray items): the code's protocol version. */
   settings?: ProtocolSettings;
+  /** Picks the concentration band (dextrose 10% for a child, 50% for an adult...). */
+  category?: CodeCategory;
 }
 
 /**
@@ -341,7 +345,7 @@ export function reconcileDrugs(input: ReconcileInput): ReconciledDrug[] {
       item,
       recorded: given?.recorded ?? [],
       line,
-      catalogue: def ? { unit: def.unit, concentrationPerMl: def.concentrationPerMl } : undefined,
+      catalogue: def ? { unit: def.unit, concentrationPerMl: usualConcentration(def, input.category ?? 'adult')?.perMl } : undefined,
     });
   });
 

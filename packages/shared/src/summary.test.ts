@@ -1,11 +1,12 @@
 import { describe, expect, it } from 'vitest';
 import type { LogEntry } from './effective-log.js';
-import { deriveLiveState } from './live-state.js';
+import { stateAt } from './code-state.js';
+import { foldLog } from './timeline.js';
 import { DEFAULT_PROTOCOL, type ProtocolSettings } from './protocol.js';
 import {
   PRE_SHOCK_PAUSE_TARGET_SECONDS,
   SUMMARY_DEFINITIONS,
-  summarizeCode,
+  summarizeLog,
   type CodeSummary,
 } from './summary.js';
 
@@ -51,6 +52,10 @@ const code = (arrestAt: string, endedAt: string | null = null) => ({
   category: 'adult' as const,
   weightKg: null,
 });
+
+/** The core's three steps as the record uses them: fold the log, then summarize. */
+const summarizeCode = (input: { code: ReturnType<typeof code>; entries: LogEntry[]; settings: ProtocolSettings; asOf?: string }): CodeSummary =>
+  summarizeLog(input.code, input.entries, input.settings, input.asOf ? { asOfMs: Date.parse(input.asOf) } : {});
 
 const summarize = (
   arrestAt: string,
@@ -107,11 +112,14 @@ describe('summarizeCode: the brief demo code', () => {
     expect(s.shocks[0]).toMatchObject({ joules: 200, synchronized: false, at: clock('07:43:45') });
     expect(s.anyRosc).toBe(true);
     expect(s.roscAtEnd).toBe(true);
-    // 6 min 30 s of ROSC before the code ended: any ROSC, not (yet) sustained by the 20-min rule.
+    // 6 min 30 s of ROSC when the code ended (care handed over): any ROSC yes; whether it was
+    // sustained for 20 min (Utstein 2004 update, Jacobs et al.; clinical sheet §4, secondary)
+    // could not be observed, so neither yes nor no.
     expect(s.roscPeriods).toEqual([
       expect.objectContaining({ seconds: 6 * 60 + 30, endedBy: 'end', sustained: false }),
     ]);
-    expect(s.sustainedRosc).toBe(false);
+    expect(s.sustainedRosc).toBeNull();
+    expect(s.sustainedRoscText).toBe('not observed: handed over after 6 min of ROSC');
     expect(s.outcome).toBe('transferred');
   });
 
@@ -226,12 +234,7 @@ describe('summarizeCode: compression fraction and pauses', () => {
   });
 
   it('agrees with the live screens on compression time and fraction at the end', () => {
-    const live = deriveLiveState({
-      code: code(t(T0 - 15)),
-      entries,
-      settings,
-      nowMs: Date.parse(at(1600)) + 60_000,
-    });
+    const live = stateAt(foldLog(code(t(T0 - 15)), entries, settings), Date.parse(at(1600)) + 60_000);
     expect(live.compressions.compressionMs / 1000).toBe(s.compressionSeconds);
     expect(live.compressions.arrestWindowMs / 1000).toBe(s.compressionWindowSeconds);
     expect(live.compressions.fraction).toBe(s.compressionFraction);
@@ -278,14 +281,19 @@ describe('summarizeCode: compression fraction and pauses', () => {
     expect(none.firstRhythmShockable).toBe(false);
   });
 
-  it('stops compressions still running at the end and counts a trailing pause to the end', () => {
+  it('stops compressions still running at the end; the last stop of an ended code is not a pause', () => {
     const running = summarize(t(0), [start(t(10)), end(t(70))]);
     expect(running.compressionSeconds).toBe(60);
     expect(running.compressionFraction).toBe(1);
 
+    // Compressions stopped for good at 70 s and the code was ended at 100 s: resuscitation was
+    // over, so those 30 s are not an interruption of CPR. The fraction runs to the last
+    // compressions (CCF = compression time / resuscitation time: clinical sheet §3, secondary).
     const trailing = summarize(t(0), [start(t(10)), stop(t(70), 'other'), end(t(100), 'died')]);
-    expect(trailing.compressionFraction).toBe(60 / 90);
-    expect(trailing.pauses).toEqual([expect.objectContaining({ seconds: 30, endedBy: 'end' })]);
+    expect(trailing.compressionFraction).toBe(1);
+    expect(trailing.compressionWindowSeconds).toBe(60);
+    expect(trailing.pauses).toEqual([]);
+    expect(trailing.longPauses).toEqual([]);
   });
 
   it('takes a compressor swap as no change to the compression clock', () => {

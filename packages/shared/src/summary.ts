@@ -1,23 +1,17 @@
-import type { CodeCategory } from './codes.js';
-import type { CPR_STOP_REASONS, DoseUnit, Outcome, Rhythm } from './entries.js';
-import { SHOCKABLE_RHYTHMS } from './entries.js';
-import {
-  effectiveEntries,
-  entryTimeMs,
-  type EffectiveEntry,
-  type LogEntry,
-} from './effective-log.js';
-import { EPINEPHRINE_KEY, resolveDrug } from './live-state.js';
+import { EPINEPHRINE_KEY } from './drug-catalogue.js';
+import type { DoseUnit, Outcome, Rhythm } from './entries.js';
+import { aggregateDoses, sustainedRoscAt, TAPS_NOT_SENSOR } from './code-state.js';
+import type { LogEntry } from './effective-log.js';
 import type { ProtocolSettings } from './protocol.js';
+import { documentedRhythm, foldLog, type CprStopReason, type DoseFact, type DrugAggregate, type Timeline, type TimelineCode } from './timeline.js';
 
+export type { CprStopReason };
 /**
- * The after-the-code summary: Utstein-style time points and intervals, ROSC, compression
- * fraction and pauses, shocks, epinephrine timing and drug totals, all computed from the
- * corrected entry log. Definitions and their sources: shared/reference/clinical-reference.md
- * sections 3, 4 and 6.
+ * Step three of the clinical core: the record's and quality's figures for the whole code,
+ * read from its Timeline: Utstein-style time points and intervals, ROSC, compression fraction
+ * and pauses, shocks, epinephrine timing and drug totals. Definitions and their sources:
+ * docs/clinical-sources.md.
  */
-
-export type CprStopReason = (typeof CPR_STOP_REASONS)[number];
 
 /**
  * Common quality-improvement target for the pre-shock pause (shorter than this).
@@ -31,7 +25,7 @@ export const PRE_SHOCK_PAUSE_TARGET_SECONDS = 10;
  * the same thing. The JSDoc on `CodeSummary` repeats these words.
  */
 export const SUMMARY_DEFINITIONS = {
-  arrestAt: 'When the arrest was recognised, as recorded when the code was started.',
+  arrestAt: 'When the arrest was recognised: the moment the code was started, unless the recorder or leader set it earlier because recording began late.',
   firstCompressionsAt: 'When chest compressions were first started.',
   firstRhythmAnalysisAt: 'When the first rhythm check was recorded.',
   firstShockAt: 'When the first defibrillation (an unsynchronised shock) was given.',
@@ -45,32 +39,44 @@ export const SUMMARY_DEFINITIONS = {
   arrestToFirstRosc: 'Seconds from arrest recognition to the first ROSC.',
   arrestToEnd: 'Seconds from arrest recognition to the end of the code.',
   durationSeconds: 'Duration of the event: seconds from arrest recognition to the end of the code.',
-  firstRhythm: 'The rhythm seen at the first rhythm check.',
+  firstRhythm: 'The rhythm seen at the first rhythm check; an organised rhythm without a pulse counts as PEA.',
   firstRhythmShockable: 'Whether the first documented rhythm was shockable (VF or pVT).',
   anyRosc: 'Whether ROSC was recorded at any time, however briefly.',
   sustainedRosc:
-    'Whether any ROSC period lasted at least the sustained-ROSC time (20 min by default) with no chest compressions; a period still running when the code ended runs to the end.',
+    'Yes when a ROSC period lasted at least the sustained-ROSC time (20 min by default) with no chest compressions; no when ROSC was never reached or each period ended sooner in re-arrest or compressions; not observed when the code ended (the patient handed over) before that time had passed.',
   roscPeriods:
     'Each period of ROSC, from the ROSC entry to a rearrest, a compression start or the end of the code.',
   roscAtEnd: 'Whether the patient was in ROSC when the code ended.',
-  outcome: 'The outcome recorded with the end of the code.',
+  outcome: 'The outcome recorded with the end of the code (how the code ended, not whether ROSC was sustained).',
   compressionFraction:
-    'Time with chest compressions divided by the time from the first compression start to the end of the code, leaving out periods of ROSC.',
+    'Time with chest compressions divided by the time from the first compression start to the last compressions (or the end, if compressions ran to it), leaving out periods of ROSC, as recorded by taps and not by a compression sensor.',
   compressionSeconds: 'Total seconds with chest compressions running.',
   compressionWindowSeconds:
-    'The compression-fraction denominator: seconds from the first compression start to the end of the code, less periods of ROSC.',
+    'The compression-fraction denominator: seconds from the first compression start to the last compressions (or the end), less periods of ROSC.',
   pauses:
-    'Every interruption of chest compressions during arrest (not during ROSC), with start, end, seconds and the reason recorded when compressions stopped.',
+    'Every interruption of chest compressions during arrest (not during ROSC), with start, end, seconds and the reason recorded when compressions stopped, as recorded by taps; the last stop of a code that ended without compressions is not a pause.',
   longestPause: 'The longest interruption of chest compressions.',
   longPauses: 'Interruptions longer than the pause warning (10 s by default).',
   preShockPause: 'Seconds from the last compression before a shock to the shock.',
   postShockPause: 'Seconds from a shock to the restart of chest compressions.',
   periShockPause: 'Pre-shock pause plus post-shock pause for one shock.',
-  shocks: 'Every shock with its time, energy in joules and whether it was synchronised.',
+  shocks: 'Every shock with its time, energy in joules and whether it was synchronised; defibrillations and cardioversions are numbered apart.',
   epinephrineIntervals: 'Seconds between consecutive epinephrine doses.',
   epinephrineOutsideWindow:
     'Epinephrine intervals during arrest shorter than the window minimum (early) or longer than its maximum (late); 3 to 5 min by default.',
-  drugTotals: 'Total dose of each drug in each unit, with the number of doses.',
+  drugTotals: 'Total dose of each drug in each unit as recorded, with the number of doses.',
+  flaggedDoses: 'Doses past the protocol\'s limit (number of doses or total), above the dose the sheet gives, in another unit than the catalogue\'s, or epinephrine sooner than the window.',
+  cycleCount: 'Number of compression cycles begun; a cycle runs from the compressions after one rhythm check (or shock) to the next.',
+  sustainedRoscText: 'The sustained-ROSC answer in words: yes, no, or not observed with how long ROSC lasted before the code ended.',
+  defibrillationCount: 'Number of unsynchronised shocks (defibrillations).',
+  cardioversionCount: 'Number of synchronised shocks (cardioversions).',
+  drugs: 'Per drug, the total in the catalogue unit with mass units converted (never mEq or mL), as the live screens show it.',
+  airway: 'Each airway device recorded, with its time and how it was confirmed.',
+  access: 'Each vascular access recorded (IV or IO), with its time and site.',
+  etco2: 'Each ETCO2 reading in mmHg, with its time.',
+  protocolVersion: 'The protocol version the code started with, whose timers, doses and limits these figures use.',
+  protocolEdition: 'The guideline edition that protocol version follows.',
+  tapsNote: 'A reminder that compression fraction and pauses come from the taps recorded, not from a compression sensor.',
   entryCounts:
     'Number of entries in the log, how many were voided and how many amended, and the number of corrections made.',
 } as const satisfies Record<string, string>;
@@ -78,7 +84,7 @@ export const SUMMARY_DEFINITIONS = {
 export type SummaryMetric = keyof typeof SUMMARY_DEFINITIONS;
 
 export interface SummaryTimes {
-  /** When the arrest was recognised, as recorded when the code was started. */
+  /** When the arrest was recognised (set at the start, correctable if recording began late). */
   arrestAt: string;
   /** When chest compressions were first started. */
   firstCompressionsAt: string | null;
@@ -142,6 +148,9 @@ export interface ShockSummary {
   sinceArrestSeconds: number;
   joules: number;
   synchronized: boolean;
+  kind: 'defibrillation' | 'cardioversion';
+  /** 1-based within its kind. */
+  number: number;
   /** Seconds from the last compression before the shock to the shock; null when the shock did not fall in a recorded pause. */
   preShockPauseSeconds: number | null;
   /** Seconds from the shock to the restart of compressions; null unless compressions restarted. */
@@ -208,10 +217,13 @@ export interface CodeSummary {
   /** Whether ROSC was recorded at any time, however briefly. */
   anyRosc: boolean;
   /**
-   * Whether any ROSC period lasted at least the sustained-ROSC time (20 min by default) with no
-   * chest compressions; a period still running when the code ended runs to the end.
+   * True when a ROSC period lasted the sustained-ROSC time (20 min by default) with no chest
+   * compressions; false when ROSC was never reached or broke off sooner; null when the code
+   * ended (or the summary was taken) before that time could pass.
    */
-  sustainedRosc: boolean;
+  sustainedRosc: boolean | null;
+  /** The sustained-ROSC answer in words, e.g. "not observed: handed over after 14 min of ROSC". */
+  sustainedRoscText: string;
   /** Each period of ROSC, from the ROSC entry to a rearrest, a compression start or the end of the code. */
   roscPeriods: RoscPeriod[];
   /** Whether the patient was in ROSC when the code ended. */
@@ -241,6 +253,10 @@ export interface CodeSummary {
   longPauses: CompressionPause[];
   /** Every shock with its time, energy in joules and whether it was synchronised, with its pre-, post- and peri-shock pauses. */
   shocks: ShockSummary[];
+  defibrillationCount: number;
+  cardioversionCount: number;
+  /** Compression cycles begun. */
+  cycleCount: number;
   /** Epinephrine doses in time order. */
   epinephrineDoses: EpinephrineDose[];
   /** Seconds between consecutive epinephrine doses. */
@@ -252,6 +268,19 @@ export interface CodeSummary {
   epinephrineOutsideWindow: EpinephrineInterval[];
   /** Total dose of each drug in each unit, with the number of doses. In order of first dose. */
   drugTotals: DrugTotal[];
+  /** Per drug, every dose that converts in the catalogue's unit (the same totals the screens show). */
+  drugs: DrugAggregate[];
+  /** Doses with a flag, in time order. */
+  flaggedDoses: DoseFact[];
+  /** Airway devices and access routes recorded, in time order. */
+  airway: { at: string; device: string; confirmation: string | null }[];
+  access: { at: string; route: 'iv' | 'io'; site: string | null }[];
+  etco2: { at: string; mmHg: number }[];
+  /** Which protocol version the figures used, and its edition. */
+  protocolVersion: number | null;
+  protocolEdition: string;
+  /** Compression fraction and pauses come from taps, not a compression sensor. */
+  tapsNote: string;
   /** Number of entries in the log, how many were voided and how many amended, and the number of corrections made. */
   entryCounts: EntryCounts;
   /**
@@ -262,293 +291,187 @@ export interface CodeSummary {
   horizonAt: string;
 }
 
-export interface SummaryCodeInput {
-  arrestAt: string;
-  endedAt: string | null;
-  category: CodeCategory;
-  weightKg: number | null;
-}
-
-export interface SummarizeCodeInput {
-  code: SummaryCodeInput;
-  entries: readonly LogEntry[];
-  settings: ProtocolSettings;
-  /** For a code still running: the time the summary is taken at. Ignored once the code has ended. */
-  asOf?: string;
-}
 
 const iso = (ms: number): string => new Date(ms).toISOString();
 const secondsBetween = (fromMs: number, toMs: number): number => (toMs - fromMs) / 1000;
-// Dose sums: avoid 0.1 + 0.2 style float noise in totals shown to a pharmacist.
-const roundDose = (n: number): number => Math.round(n * 1e6) / 1e6;
 
-// Same name matching as the live screens (key, label or a known synonym), so totals agree.
-function drugIdentity(settings: ProtocolSettings, name: string): { key: string; label: string } {
-  const def = resolveDrug(settings, name);
-  return def
-    ? { key: def.key, label: def.label }
-    : { key: name.trim().toLowerCase(), label: name.trim() };
+export interface SummarizeOptions {
+  /** For a code still running: the moment the summary is taken at (epoch ms). Ignored once ended. */
+  asOfMs?: number;
 }
 
-type Entry<K extends EffectiveEntry['kind']> = Extract<EffectiveEntry, { kind: K }>;
+/** The sustained-ROSC answer in words for the record and the screens. */
+function sustainedWords(value: boolean | null, periods: readonly RoscPeriod[], anyRosc: boolean, ended: boolean): string {
+  if (value === true) return 'yes';
+  if (!anyRosc) return 'no: no ROSC';
+  if (value === false) return 'no: re-arrest or compressions before 20 min';
+  const last = periods[periods.length - 1];
+  const min = last ? Math.floor(last.seconds / 60) : 0;
+  return ended ? `not observed: handed over after ${min} min of ROSC` : `not yet known: ${min} min of ROSC so far`;
+}
 
-export function summarizeCode(input: SummarizeCodeInput): CodeSummary {
-  const { code, entries, settings } = input;
-  const arrestMs = Date.parse(code.arrestAt);
-  const all = effectiveEntries(entries);
-  const live = all.filter((e) => e.voided === null);
+export function summarize(timeline: Timeline, options: SummarizeOptions = {}): CodeSummary {
+  const { protocol, arrestAtMs, end } = timeline;
+  const horizonMs = end?.atMs ?? options.asOfMs ?? timeline.lastEntryMs;
+  const since = (ms: number | null): number | null => (ms === null ? null : secondsBetween(arrestAtMs, ms));
+  const isoOrNull = (t: number | null) => (t === null ? null : iso(t));
+  const upTo = <T extends { atMs: number }>(xs: readonly T[]) => (end ? xs : xs.filter((x) => x.atMs <= horizonMs));
 
-  // The log is the record: a (possibly amended) end entry wins over the code row.
-  const endEntry = live.find((e): e is Entry<'end'> => e.kind === 'end');
-  const endMs = endEntry
-    ? entryTimeMs(endEntry)
-    : code.endedAt !== null
-      ? Date.parse(code.endedAt)
-      : null;
-  const asOfMs = input.asOf !== undefined ? Date.parse(input.asOf) : null;
-  const horizonMs = endMs ?? asOfMs ?? Math.max(arrestMs, ...live.map((e) => entryTimeMs(e)));
-
-  // As on the live screens: the end freezes the clocks (compressions, pauses, ROSC), but drugs,
-  // shocks and rhythms timed after it still count, so nothing recorded is hidden.
-  const clockEntries = live.filter((e) => entryTimeMs(e) <= horizonMs);
-  const since = (ms: number | null): number | null =>
-    ms === null ? null : secondsBetween(arrestMs, ms);
-
-  // --- compressions, pauses and ROSC: one pass over the log in time order ---
-  let windowStartMs: number | null = null;
-  let compressing = false;
-  let compressionStartMs = 0;
+  // --- compressions, pauses and ROSC periods, closed at the horizon
   let compressionMs = 0;
-  let rosc: { startMs: number } | null = null;
-  let pause: {
-    startMs: number;
-    startedBy: CompressionPause['startedBy'];
-    reason: CprStopReason | null;
-  } | null = null;
-  const roscSpans: { startMs: number; endMs: number; endedBy: RoscPeriod['endedBy'] }[] = [];
-  const pauseSpans: {
-    startMs: number;
-    endMs: number;
-    startedBy: CompressionPause['startedBy'];
-    reason: CprStopReason | null;
-    endedBy: CompressionPause['endedBy'];
-  }[] = [];
-
-  const startCompressions = (t: number) => {
-    if (windowStartMs === null) windowStartMs = t;
-    compressing = true;
-    compressionStartMs = t;
-  };
-  const stopCompressions = (t: number) => {
-    compressionMs += t - compressionStartMs;
-    compressing = false;
-  };
-  const closePause = (t: number, endedBy: CompressionPause['endedBy']) => {
-    if (pause && t > pause.startMs) pauseSpans.push({ ...pause, endMs: t, endedBy });
-    pause = null;
-  };
-  const closeRosc = (t: number, endedBy: RoscPeriod['endedBy']) => {
-    if (rosc) roscSpans.push({ startMs: rosc.startMs, endMs: t, endedBy });
-    rosc = null;
-  };
-
-  for (const e of clockEntries) {
-    const t = entryTimeMs(e);
-    if (e.kind === 'cpr') {
-      // A swap changes the compressor, not the clocks (the live screens read it the same way).
-      if (e.action === 'start' && !compressing) {
-        closeRosc(t, 'compressions'); // compressions again: the ROSC period is over
-        closePause(t, 'compressions');
-        startCompressions(t);
-      } else if (e.action === 'stop' && compressing) {
-        stopCompressions(t);
-        pause = { startMs: t, startedBy: 'cpr-stop', reason: e.reason ?? null };
-      }
-    } else if (e.kind === 'rosc') {
-      if (rosc) continue;
-      if (compressing) stopCompressions(t);
-      closePause(t, 'rosc');
-      rosc = { startMs: t };
-    } else if (e.kind === 'rearrest') {
-      if (!rosc) continue;
-      closeRosc(t, 'rearrest');
-      // Time back in arrest before compressions restart is a pause, once compressions have begun at all.
-      if (windowStartMs !== null) pause = { startMs: t, startedBy: 'rearrest', reason: null };
-    }
+  for (const r of timeline.runs) {
+    if (r.startMs > horizonMs) continue;
+    compressionMs += Math.min(r.endMs ?? horizonMs, horizonMs) - r.startMs;
   }
-  if (compressing) stopCompressions(horizonMs);
-  closePause(horizonMs, 'end');
-  closeRosc(horizonMs, 'end');
+  const roscPeriods: RoscPeriod[] = timeline.rosc
+    .filter((r) => r.startMs <= horizonMs)
+    .map((r) => {
+      const endMs = r.endMs === null || r.endMs > horizonMs ? horizonMs : r.endMs;
+      const seconds = secondsBetween(r.startMs, endMs);
+      return {
+        startAt: iso(r.startMs),
+        endAt: iso(endMs),
+        seconds,
+        endedBy: r.endMs === null || r.endMs > horizonMs ? 'end' : (r.endedBy ?? 'end'),
+        sustained: seconds >= protocol.sustainedRoscSeconds,
+      };
+    });
 
-  const roscPeriods: RoscPeriod[] = roscSpans.map((r) => {
-    const seconds = secondsBetween(r.startMs, r.endMs);
-    return {
-      startAt: iso(r.startMs),
-      endAt: iso(r.endMs),
-      seconds,
-      endedBy: r.endedBy,
-      sustained: seconds >= settings.sustainedRoscSeconds,
-    };
-  });
+  const shockFacts = upTo(timeline.shocks);
+  const pauses: CompressionPause[] = timeline.pauses
+    // The last stop of an ended code is not a pause of the code.
+    .filter((p) => p.startMs < horizonMs && p.endedBy !== 'end')
+    .map((p) => {
+      const open = p.endMs === null || p.endMs > horizonMs;
+      const endMs = open ? horizonMs : (p.endMs ?? horizonMs);
+      const seconds = secondsBetween(p.startMs, endMs);
+      const shockIds = shockFacts.filter((s) => s.atMs >= p.startMs && s.atMs <= endMs).map((s) => s.id);
+      return {
+        startAt: iso(p.startMs),
+        endAt: iso(endMs),
+        seconds,
+        startedBy: p.startedBy,
+        reason: p.reason,
+        endedBy: open ? 'end' : (p.endedBy ?? 'end'),
+        preShock: shockIds.length > 0,
+        shockIds,
+        overWarning: seconds > protocol.pauseWarningSeconds,
+      };
+    });
 
   let compressionWindowSeconds: number | null = null;
   let compressionFraction: number | null = null;
-  if (windowStartMs !== null) {
-    const ws: number = windowStartMs;
-    const roscInWindowMs = roscSpans.reduce(
-      (sum, r) => sum + Math.max(0, Math.min(r.endMs, horizonMs) - Math.max(r.startMs, ws)),
+  const first = timeline.firstCompressionsMs;
+  if (first !== null && first <= horizonMs) {
+    const windowEnd = end && timeline.endedStoppedSinceMs !== null ? timeline.endedStoppedSinceMs : horizonMs;
+    const roscInWindowMs = timeline.rosc.reduce(
+      (sum, r) => sum + Math.max(0, Math.min(r.endMs ?? windowEnd, windowEnd) - Math.max(r.startMs, first)),
       0,
     );
-    const windowMs = horizonMs - ws - roscInWindowMs;
+    const windowMs = windowEnd - first - roscInWindowMs;
     compressionWindowSeconds = windowMs / 1000;
-    compressionFraction = windowMs > 0 ? compressionMs / windowMs : null;
+    compressionFraction = windowMs > 0 ? Math.min(1, compressionMs / windowMs) : null;
   }
 
-  // --- shocks and the pauses around them ---
-  const shockEntries = live.filter((e): e is Entry<'shock'> => e.kind === 'shock');
-  const pauses: CompressionPause[] = pauseSpans.map((p) => {
-    const seconds = secondsBetween(p.startMs, p.endMs);
-    const shockIds = shockEntries
-      .filter((s) => entryTimeMs(s) >= p.startMs && entryTimeMs(s) <= p.endMs)
-      .map((s) => s.id);
-    return {
-      startAt: iso(p.startMs),
-      endAt: iso(p.endMs),
-      seconds,
-      startedBy: p.startedBy,
-      reason: p.reason,
-      endedBy: p.endedBy,
-      preShock: shockIds.length > 0,
-      shockIds,
-      overWarning: seconds > settings.pauseWarningSeconds,
-    };
-  });
-
-  const shocks: ShockSummary[] = shockEntries.map((s) => {
-    const t = entryTimeMs(s);
-    const p = pauseSpans.find((span) => t >= span.startMs && t <= span.endMs);
-    const pre = p ? secondsBetween(p.startMs, t) : null;
-    const post = p && p.endedBy === 'compressions' ? secondsBetween(t, p.endMs) : null;
+  // --- shocks and the pauses around them
+  const shocks: ShockSummary[] = shockFacts.map((s) => {
+    const p = pauses.find((span) => s.atMs >= Date.parse(span.startAt) && s.atMs <= Date.parse(span.endAt));
+    const pre = p ? secondsBetween(Date.parse(p.startAt), s.atMs) : null;
+    const post = p && p.endedBy === 'compressions' ? secondsBetween(s.atMs, Date.parse(p.endAt)) : null;
     return {
       id: s.id,
-      at: iso(t),
-      sinceArrestSeconds: secondsBetween(arrestMs, t),
+      at: iso(s.atMs),
+      sinceArrestSeconds: secondsBetween(arrestAtMs, s.atMs),
       joules: s.joules,
       synchronized: s.synchronized,
+      kind: s.kind,
+      number: s.number,
       preShockPauseSeconds: pre,
       postShockPauseSeconds: post,
       periShockPauseSeconds: pre !== null && post !== null ? pre + post : null,
       preShockPauseMeetsTarget: pre === null ? null : pre < PRE_SHOCK_PAUSE_TARGET_SECONDS,
     };
   });
-
   let longestPause: CompressionPause | null = null;
   for (const p of pauses) if (!longestPause || p.seconds > longestPause.seconds) longestPause = p;
 
-  // --- drugs ---
-  const drugEntries = live.filter((e): e is Entry<'drug'> => e.kind === 'drug');
+  // --- drugs: per unit as recorded (the pharmacist's rows), and per drug in the catalogue unit
+  const doseFacts = upTo(timeline.doses);
   const totals = new Map<string, DrugTotal>();
-  const epinephrineEntries: Entry<'drug'>[] = [];
-  for (const d of drugEntries) {
-    const { key, label } = drugIdentity(settings, d.drug);
-    if (key === EPINEPHRINE_KEY) epinephrineEntries.push(d);
-    // Units are never converted: a mg/ug mix-up shows as two rows instead of hiding in a sum.
-    const mapKey = `${key}\u0000${d.unit}`;
-    const at = iso(entryTimeMs(d));
+  for (const d of doseFacts) {
+    // Units are never added across: a mg/mcg mix-up shows as two rows instead of hiding in a sum.
+    const mapKey = `${d.key}\u0000${d.unit}`;
+    const at = iso(d.atMs);
     const row = totals.get(mapKey);
     if (row) {
-      row.total = roundDose(row.total + d.dose);
+      row.total = Math.round((row.total + d.dose) * 1e6) / 1e6;
       row.doses += 1;
       row.lastAt = at;
     } else {
-      totals.set(mapKey, {
-        drug: key,
-        label,
-        unit: d.unit,
-        total: roundDose(d.dose),
-        doses: 1,
-        firstAt: at,
-        lastAt: at,
-      });
+      totals.set(mapKey, { drug: d.key, label: d.label, unit: d.unit, total: d.dose, doses: 1, firstAt: at, lastAt: at });
     }
   }
+  const weight = timeline.code.weightKg !== null && timeline.code.weightKg > 0 ? timeline.code.weightKg : null;
+  const drugs = aggregateDoses(doseFacts, weight, new Map(timeline.drugs.map((d) => [d.key, d])));
 
-  const epinephrineDoses: EpinephrineDose[] = epinephrineEntries.map((d) => ({
-    id: d.id,
-    at: iso(entryTimeMs(d)),
-    dose: d.dose,
-    unit: d.unit,
-  }));
-  const { min, max } = settings.epinephrineWindowSeconds;
+  const epiFacts = doseFacts.filter((d) => d.key === EPINEPHRINE_KEY);
+  const epinephrineDoses: EpinephrineDose[] = epiFacts.map((d) => ({ id: d.id, at: iso(d.atMs), dose: d.dose, unit: d.unit }));
+  const { min, max } = protocol.epinephrineWindowSeconds;
   const epinephrineIntervals: EpinephrineInterval[] = [];
-  for (let i = 1; i < epinephrineEntries.length; i++) {
-    const a = epinephrineEntries[i - 1];
-    const b = epinephrineEntries[i];
+  for (let i = 1; i < epiFacts.length; i++) {
+    const a = epiFacts[i - 1];
+    const b = epiFacts[i];
     if (!a || !b) continue;
-    const aMs = entryTimeMs(a);
-    const bMs = entryTimeMs(b);
-    const seconds = secondsBetween(aMs, bMs);
+    const seconds = secondsBetween(a.atMs, b.atMs);
     epinephrineIntervals.push({
       fromId: a.id,
       toId: b.id,
-      fromAt: iso(aMs),
-      toAt: iso(bMs),
+      fromAt: iso(a.atMs),
+      toAt: iso(b.atMs),
       seconds,
       status: seconds < min ? 'early' : seconds > max ? 'late' : 'within',
-      spansRosc: roscSpans.some((r) => r.startMs < bMs && r.endMs > aMs),
+      spansRosc: timeline.rosc.some((r) => r.startMs < b.atMs && (r.endMs ?? Infinity) > a.atMs),
     });
   }
 
-  // --- time points ---
-  const first = <K extends EffectiveEntry['kind']>(
-    kind: K,
-    pick: (e: Entry<K>) => boolean = () => true,
-  ): Entry<K> | undefined =>
-    live.find((e): e is Entry<K> => e.kind === kind && pick(e as Entry<K>));
-  const firstRhythmEntry = first('rhythm');
-  const firstShockEntry = first('shock', (s) => !s.synchronized);
-  const firstEpi = epinephrineEntries[0];
-  const firstRoscEntry = clockEntries.find((e): e is Entry<'rosc'> => e.kind === 'rosc');
-  const ms = (e: { at: string } | undefined): number | null => (e ? entryTimeMs(e) : null);
-
-  const firstRhythmAnalysisMs = ms(firstRhythmEntry);
-  const firstShockMs = ms(firstShockEntry);
-  const firstEpinephrineMs = ms(firstEpi);
-  const firstRoscMs = ms(firstRoscEntry);
-  const isoOrNull = (t: number | null) => (t === null ? null : iso(t));
-
-  const corrections = new Set(
-    entries.filter((e) => e.kind === 'void' || e.kind === 'amend').map((e) => e.id),
-  );
+  // --- time points
+  const checks = upTo(timeline.rhythmChecks);
+  const firstCheck = checks[0];
+  const firstDefib = shockFacts.find((s) => s.kind === 'defibrillation');
+  const firstEpi = epiFacts[0];
+  const firstRosc = timeline.rosc.find((r) => r.startMs <= horizonMs);
+  const anyRosc = firstRosc !== undefined;
+  const sustainedRosc = sustainedRoscAt(timeline, horizonMs);
+  const firstRhythm = firstCheck ? documentedRhythm(firstCheck.rhythm, firstCheck.pulse) : null;
+  const liveCount = timeline.live.length;
 
   return {
     times: {
-      arrestAt: iso(arrestMs),
-      firstCompressionsAt: isoOrNull(windowStartMs),
-      firstRhythmAnalysisAt: isoOrNull(firstRhythmAnalysisMs),
-      firstShockAt: isoOrNull(firstShockMs),
-      firstEpinephrineAt: isoOrNull(firstEpinephrineMs),
-      firstRoscAt: isoOrNull(firstRoscMs),
-      endedAt: isoOrNull(endMs),
+      arrestAt: iso(arrestAtMs),
+      firstCompressionsAt: isoOrNull(first !== null && first <= horizonMs ? first : null),
+      firstRhythmAnalysisAt: isoOrNull(firstCheck?.atMs ?? null),
+      firstShockAt: isoOrNull(firstDefib?.atMs ?? null),
+      firstEpinephrineAt: isoOrNull(firstEpi?.atMs ?? null),
+      firstRoscAt: isoOrNull(firstRosc?.startMs ?? null),
+      endedAt: isoOrNull(end?.atMs ?? null),
     },
     intervals: {
-      arrestToFirstCompressions: since(windowStartMs),
-      arrestToFirstRhythmAnalysis: since(firstRhythmAnalysisMs),
-      arrestToFirstShock: since(firstShockMs),
-      arrestToFirstEpinephrine: since(firstEpinephrineMs),
-      arrestToFirstRosc: since(firstRoscMs),
-      arrestToEnd: since(endMs),
+      arrestToFirstCompressions: since(first !== null && first <= horizonMs ? first : null),
+      arrestToFirstRhythmAnalysis: since(firstCheck?.atMs ?? null),
+      arrestToFirstShock: since(firstDefib?.atMs ?? null),
+      arrestToFirstEpinephrine: since(firstEpi?.atMs ?? null),
+      arrestToFirstRosc: since(firstRosc?.startMs ?? null),
+      arrestToEnd: since(end?.atMs ?? null),
     },
-    durationSeconds: since(endMs),
-    firstRhythm: firstRhythmEntry?.rhythm ?? null,
-    firstRhythmShockable: firstRhythmEntry
-      ? SHOCKABLE_RHYTHMS.includes(firstRhythmEntry.rhythm)
-      : null,
-    anyRosc: clockEntries.some((e) => e.kind === 'rosc'),
-    sustainedRosc: roscPeriods.some((r) => r.sustained),
+    durationSeconds: since(end?.atMs ?? null),
+    firstRhythm,
+    firstRhythmShockable: firstCheck ? firstCheck.shockable : null,
+    anyRosc,
+    sustainedRosc,
+    sustainedRoscText: sustainedWords(sustainedRosc, roscPeriods, anyRosc, end !== null),
     roscPeriods,
-    roscAtEnd: endMs !== null && roscPeriods.some((r) => r.endedBy === 'end'),
-    outcome: endEntry?.outcome ?? null,
+    roscAtEnd: end !== null && roscPeriods.some((r) => r.endedBy === 'end'),
+    outcome: end?.outcome ?? null,
     compressionFraction,
     compressionSeconds: compressionMs / 1000,
     compressionWindowSeconds,
@@ -556,19 +479,38 @@ export function summarizeCode(input: SummarizeCodeInput): CodeSummary {
     longestPause,
     longPauses: pauses.filter((p) => p.overWarning),
     shocks,
+    defibrillationCount: shocks.filter((s) => s.kind === 'defibrillation').length,
+    cardioversionCount: shocks.filter((s) => s.kind === 'cardioversion').length,
+    cycleCount: timeline.cycles.filter((c) => c.startMs <= horizonMs).length,
     epinephrineDoses,
     epinephrineIntervals,
-    epinephrineOutsideWindow: epinephrineIntervals.filter(
-      (i) => i.status !== 'within' && !i.spansRosc,
-    ),
+    epinephrineOutsideWindow: epinephrineIntervals.filter((i) => i.status !== 'within' && !i.spansRosc),
     drugTotals: [...totals.values()],
+    drugs,
+    flaggedDoses: doseFacts.filter((d) => d.flags.length > 0),
+    airway: upTo(timeline.airway.map((a) => ({ ...a, atMs: Date.parse(a.at) }))).map((a) => ({
+      at: iso(a.atMs),
+      device: a.device,
+      confirmation: a.confirmation ?? null,
+    })),
+    access: upTo(timeline.access.map((a) => ({ ...a, atMs: Date.parse(a.at) }))).map((a) => ({ at: iso(a.atMs), route: a.route, site: a.site ?? null })),
+    etco2: upTo(timeline.etco2).map((x) => ({ at: iso(x.atMs), mmHg: x.mmHg })),
+    protocolVersion: timeline.protocolVersion,
+    protocolEdition: protocol.edition,
+    tapsNote: TAPS_NOT_SENSOR,
     entryCounts: {
-      entries: all.length,
-      live: live.length,
-      voided: all.length - live.length,
-      amended: all.filter((e) => e.amendments.length > 0).length,
-      corrections: corrections.size,
+      entries: timeline.all.length,
+      live: liveCount,
+      voided: timeline.all.length - liveCount,
+      amended: timeline.all.filter((e) => e.amendments.length > 0).length,
+      corrections: timeline.corrections,
     },
     horizonAt: iso(horizonMs),
   };
+}
+
+
+/** Fold and summarize in one call, for a caller that needs only the summary. */
+export function summarizeLog(code: TimelineCode, entries: readonly LogEntry[], protocol: ProtocolSettings, options: SummarizeOptions = {}): CodeSummary {
+  return summarize(foldLog(code, entries, protocol), options);
 }

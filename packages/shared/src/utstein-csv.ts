@@ -1,5 +1,4 @@
 import type { Code } from './codes.js';
-import { liveEntries, type LogEntry } from './effective-log.js';
 import type { CodeSummary } from './summary.js';
 
 /**
@@ -40,7 +39,7 @@ export const UTSTEIN_CSV_COLUMNS = [
   { name: 'arrest_to_first_defibrillation_s', group: 'process', description: 'Seconds from recognition to the first shock.' },
   { name: 'arrest_to_first_vasopressor_s', group: 'process', description: 'Seconds from recognition to the first epinephrine.' },
   { name: 'event_duration_s', group: 'process', description: 'Seconds from recognition to the end of the event.' },
-  { name: 'first_documented_rhythm', group: 'process', description: 'VF, pVT, PEA, asystole, organised, other, or unknown.' },
+  { name: 'first_documented_rhythm', group: 'process', description: 'VF, pVT, PEA (an organised rhythm without a pulse counts as PEA), asystole, organised (with a pulse), other, or unknown.' },
   { name: 'first_rhythm_shockable', group: 'process', description: 'yes (VF/pVT), no, or unknown.' },
   { name: 'shocks', group: 'process', description: 'Number of shocks given (synchronised included).' },
   { name: 'epinephrine_doses', group: 'process', description: 'Number of epinephrine doses.' },
@@ -48,7 +47,7 @@ export const UTSTEIN_CSV_COLUMNS = [
   { name: 'vascular_access', group: 'process', description: 'iv, io, iv+io, or none recorded.' },
   { name: 'compression_fraction', group: 'process', description: 'Compression fraction, 0 to 1 with 3 decimals (ROSC periods left out), or empty.' },
   { name: 'any_rosc', group: 'outcome', description: 'yes or no: ROSC recorded at any time.' },
-  { name: 'sustained_rosc', group: 'outcome', description: 'yes or no: ROSC for at least 20 min with no compressions.' },
+  { name: 'sustained_rosc', group: 'outcome', description: 'yes: ROSC for at least 20 min with no compressions; no: ROSC never reached or lost sooner; unknown: the code ended (care handed over) before 20 min of ROSC.' },
   { name: 'event_outcome', group: 'outcome', description: 'Outcome recorded at the end: sustained-rosc, died, transferred, other, or unknown.' },
   { name: 'survival_to_discharge', group: 'outcome', description: 'Not recorded by Steadyhand: always "unknown".' },
   { name: 'neurological_outcome', group: 'outcome', description: 'CPC or mRS at discharge; not recorded by Steadyhand: always empty.' },
@@ -62,7 +61,6 @@ export interface UtsteinRowInput {
   unitName: string | null;
   facility: string;
   summary: CodeSummary;
-  entries: readonly LogEntry[];
 }
 
 const RHYTHM_WORDS: Record<string, string> = {
@@ -80,9 +78,8 @@ const yesNo = (v: boolean) => (v ? 'yes' : 'no');
 
 export function utsteinRow(input: UtsteinRowInput): UtsteinRow {
   const { code, summary } = input;
-  const live = liveEntries(input.entries);
-  const airways = new Set(live.flatMap((e) => (e.kind === 'airway' ? [e.device] : [])));
-  const access = new Set(live.flatMap((e) => (e.kind === 'access' ? [e.route] : [])));
+  const airways = new Set(summary.airway.map((a) => a.device));
+  const access = new Set(summary.access.map((a) => a.route));
   const airway = (['endotracheal', 'supraglottic', 'bag-mask'] as const).find((a) => airways.has(a)) ?? 'none';
   return {
     record_id: code.id,
@@ -114,7 +111,7 @@ export function utsteinRow(input: UtsteinRowInput): UtsteinRow {
     vascular_access: access.size === 0 ? 'none' : [...access].sort().join('+'),
     compression_fraction: summary.compressionFraction === null ? '' : summary.compressionFraction.toFixed(3),
     any_rosc: yesNo(summary.anyRosc),
-    sustained_rosc: yesNo(summary.sustainedRosc),
+    sustained_rosc: summary.sustainedRosc === null ? 'unknown' : yesNo(summary.sustainedRosc),
     event_outcome: summary.outcome ?? 'unknown',
     survival_to_discharge: 'unknown',
     neurological_outcome: '',

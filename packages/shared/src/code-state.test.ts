@@ -1,7 +1,9 @@
 import { describe, it, expect } from 'vitest';
-import { deriveLiveState, deriveLiveStateFromLive, formatElapsedMs, resolveDrug, type LiveState } from './live-state.js';
+import { formatElapsedMs, stateAt, type CodeState } from './code-state.js';
+import { resolveDrug } from './drug-catalogue.js';
+import { foldLog } from './timeline.js';
 import { DEFAULT_PROTOCOL, type ProtocolSettings } from './protocol.js';
-import { liveEntries, type LogEntry } from './effective-log.js';
+import type { LogEntry } from './effective-log.js';
 import type { DoseUnit, Rhythm } from './entries.js';
 
 // --- fixtures -------------------------------------------------------------------------------
@@ -59,14 +61,9 @@ function live(
   entries: LogEntry[],
   nowOffsetMs: number,
   opts: { settings?: ProtocolSettings; weightKg?: number | null; recentCount?: number } = {},
-): LiveState {
-  return deriveLiveState({
-    code: { arrestAt: iso(0), category: 'adult', weightKg: opts.weightKg ?? null },
-    entries,
-    settings: opts.settings ?? DEFAULT_PROTOCOL,
-    nowMs: ARREST_MS + nowOffsetMs,
-    ...(opts.recentCount !== undefined ? { recentCount: opts.recentCount } : {}),
-  });
+): CodeState {
+  const timeline = foldLog({ arrestAt: iso(0), category: 'adult', weightKg: opts.weightKg ?? null }, entries, opts.settings ?? DEFAULT_PROTOCOL);
+  return stateAt(timeline, ARREST_MS + nowOffsetMs, opts.recentCount !== undefined ? { recentCount: opts.recentCount } : {});
 }
 const abs = (offsetMs: number): number => ARREST_MS + offsetMs;
 
@@ -340,6 +337,9 @@ describe('shocks', () => {
     const s = live([cprStart(t(0)), shock(t(1, 30), 200), shock(t(3, 40), 200), shock(t(6), 100, true)], t(7));
     expect(s.shocks).toEqual({
       count: 3,
+      // Defibrillations and synchronised cardioversions are counted apart (the energies differ).
+      defibrillations: 2,
+      cardioversions: 1,
       lastJoules: 100,
       lastSynchronized: true,
       lastAtMs: abs(t(6)),
@@ -367,7 +367,7 @@ describe('rhythm', () => {
   it('gives the first documented rhythm and the current (last) one', () => {
     const first = rhythm(t(1, 30), 'vf'); // demo: first rhythm check VF
     const s = live([cprStart(t(0, 15)), first, rhythm(t(3, 40), 'pvt'), rhythm(t(5, 50), 'organized', true)], t(6));
-    expect(s.rhythm.first).toEqual({ id: first.id, atMs: abs(t(1, 30)), rhythm: 'vf', pulse: false });
+    expect(s.rhythm.first).toEqual({ id: first.id, atMs: abs(t(1, 30)), rhythm: 'vf', pulse: false, rhythmClass: 'vf' });
     expect(s.rhythm.current).toMatchObject({ rhythm: 'organized', pulse: true, atMs: abs(t(5, 50)) });
   });
 
@@ -550,18 +550,6 @@ describe('log order, recent entries and scale', () => {
     const shuffled = live([entries[5]!, entries[2]!, entries[6]!, entries[0]!, entries[4]!, entries[1]!, entries[3]!], t(7));
     expect(shuffled).toEqual(inOrder);
     expect(inOrder.compressions.compressionMs).toBe(t(2) + t(4, 38));
-  });
-
-  it('deriveLiveStateFromLive on a kept liveEntries() list gives the same state', () => {
-    const sh = shock(t(1, 35), 360);
-    const entries = [cprStart(t(0, 15)), sh, amendOf(t(2), sh, { joules: 200 }), epi(t(3)), cprStop(t(4), 'airway')];
-    const code = { arrestAt: iso(0), category: 'adult' as const, weightKg: null };
-    const nowMs = abs(t(4, 12));
-    const direct = deriveLiveState({ code, entries, settings: DEFAULT_PROTOCOL, nowMs });
-    const kept = deriveLiveStateFromLive({ code, liveEntries: liveEntries(entries), settings: DEFAULT_PROTOCOL, nowMs });
-    expect(kept).toEqual(direct);
-    expect(kept.shocks.lastJoules).toBe(200);
-    expect(kept.compressions.pause?.tooLong).toBe(true);
   });
 
   it('lists the last 8 entries newest first, voided ones left out', () => {
