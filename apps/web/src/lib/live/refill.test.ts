@@ -61,6 +61,9 @@ describe('refillCodeDetails', () => {
       status: 'active',
       category: 'pediatric',
       weightKg: 18,
+      weightSource: 'length-tape',
+      protocolVersion: 3,
+      categoryChangedAt: null,
       location: '4 West, bed 12',
       unitId: null,
       patient: null,
@@ -75,6 +78,7 @@ describe('refillCodeDetails', () => {
       category: 'pediatric',
       arrestAt: '2026-03-04T07:40:00.000Z',
       weightKg: 18,
+      weightSource: 'length-tape',
       location: '4 West, bed 12',
     });
   });

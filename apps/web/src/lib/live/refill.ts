@@ -77,6 +77,7 @@ export function refillCodeDetails(
       category: code.category,
       arrestAt: code.arrestAt,
       ...(code.weightKg !== null ? { weightKg: code.weightKg } : {}),
+      ...(code.weightSource ? { weightSource: code.weightSource } : {}),
       ...(code.location !== null ? { location: code.location } : {}),
       ...(code.unitId !== null ? { unitId: code.unitId } : {}),
       ...(code.patient !== null ? { patient: code.patient } : {}),
