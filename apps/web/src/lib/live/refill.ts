@@ -108,14 +108,17 @@ export class LogRefill {
     if (kept.length === 0) return result;
     const waiting = new Set((await readOutbox()).map((r) => r.id));
     const now = Date.now();
+    const live: [string, KeptRecord[]][] = [];
     for (const [codeId, list] of groupByCode(kept)) {
       if (keptExpired(list, now)) {
         await dropKept(codeId);
         result.dropped++;
-        continue;
-      }
-      if (!this.link.socket.connected) break;
-      const log = await this.ask<CodeLogAck>('code:log', { codeId });
+      } else live.push([codeId, list]);
+    }
+    // All codes asked at once: taps made since the connection wait for this check.
+    const logs = await Promise.all(live.map(([codeId]) => this.ask<CodeLogAck>('code:log', { codeId })));
+    for (const [i, [codeId, list]] of live.entries()) {
+      const log = logs[i];
       if (!log?.ok) continue; // no answer or refused: the next connection asks again
       result.codes++;
       let serverIds = new Set<string>();
