@@ -90,8 +90,14 @@ export class MetricsService {
   constructor(@Inject(APP_CONFIG) config: AppConfig) {
     this.allow = allowList(config.metricsAllow);
     const backupDir = config.backup.dir;
-    // Read from BACKUP_DIR at each scrape, so copies made by `pnpm db:backup` count too.
-    const newest = () => listCopies(backupDir)[0];
+    // Read from BACKUP_DIR at each scrape (once for the three gauges), so copies made by
+    // `pnpm db:backup` count too.
+    let listed: { at: number; copies: ReturnType<typeof listCopies> } = { at: 0, copies: [] };
+    const copies = () => {
+      if (Date.now() - listed.at > 1000) listed = { at: Date.now(), copies: listCopies(backupDir) };
+      return listed.copies;
+    };
+    const newest = () => copies()[0];
     new Gauge({
       name: 'steadyhand_backup_last_timestamp_seconds',
       help: 'When the newest copy in BACKUP_DIR was taken (0 when there is none)',
@@ -114,7 +120,7 @@ export class MetricsService {
       help: 'Copies kept in BACKUP_DIR',
       registers: [this.registry],
       collect() {
-        this.set(listCopies(backupDir).length);
+        this.set(copies().length);
       },
     });
     collectDefaultMetrics({ register: this.registry });
