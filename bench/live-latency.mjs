@@ -1,7 +1,7 @@
 #!/usr/bin/env node
 // Tap-to-other-screen latency of the live log, beside its floor, measured in one run.
 //
-//   node bench/live-latency.mjs [--seconds 30] [--load 1] [--codes 20] [--warmup 3]
+//   node bench/live-latency.mjs [--seconds 30] [--load 1] [--codes 20] [--warmup 3] [--skip-floor]
 //
 // Runs the built server (apps/server/dist/main.js; build it first) as a child process on a
 // temporary data folder. Every code has 4 screens (the recorder's device and 3 watchers, each its
@@ -9,11 +9,12 @@
 // the recorder to `entry:added` on each of the other 3 screens, all on this process's clock.
 // The floor is a bare socket.io server (no sign-in, no validation) in its own process that does
 // one SQLite insert per message (journal_mode=WAL, synchronous=FULL) and broadcasts to the same
-// rooms: what any design with a durable commit before the broadcast pays. Results go to
+// rooms: what any design with a durable commit before the broadcast pays. The server process's
+// CPU time over the measured seconds is read from /proc (Linux), as a share of one core. Results go to
 // bench/results/live-latency-<date>.json (git-ignored).
 import { spawn } from 'node:child_process';
 import { randomUUID } from 'node:crypto';
-import { mkdirSync, mkdtempSync, rmSync, writeFileSync, existsSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync, existsSync } from 'node:fs';
 import { createServer as createHttpServer } from 'node:http';
 import { createRequire } from 'node:module';
 import { createServer as createNetServer } from 'node:net';
@@ -34,6 +35,8 @@ const { values: args } = parseArgs({
     load: { type: 'string', default: '1' },
     codes: { type: 'string', default: '20' },
     warmup: { type: 'string', default: '3' },
+    // Large runs: the floor doubles the time and the load on a small machine.
+    'skip-floor': { type: 'boolean', default: false },
     // Internal: this script run as the floor server.
     'serve-floor': { type: 'boolean', default: false },
     port: { type: 'string' },
@@ -113,6 +116,16 @@ async function main() {
   const report = (name, r) =>
     out(`${name}: ${r.deliveries} deliveries measured, ${r.missing} missing, ${r.errors} failed taps${r.errors ? ` ${JSON.stringify(r.errorKinds)}` : ''}${Object.keys(r.disconnects).length ? `, disconnects ${JSON.stringify(r.disconnects)}` : ''}`);
   report('Steadyhand', steadyhand);
+  if (args['skip-floor']) {
+    const r = steadyhand;
+    out();
+    out(`tap -> entry:added on the other ${WATCHERS} screens (ms): p50 ${r.latency.p50}, p90 ${r.latency.p90}, p99 ${r.latency.p99}, max ${r.latency.max}, n ${r.deliveries}; tap -> ack p50 / p99 ${r.ack.p50} / ${r.ack.p99}`);
+    out(`server CPU over the measured seconds: ${r.serverCpuPercent}% of one core`);
+    machine.loadAverageAtEnd = os.loadavg().map((v) => round(v, 2));
+    out(`load average at the end: ${machine.loadAverageAtEnd.join(' ')}`);
+    writeResult({ machine, shape, steadyhand }, `codes${codes}-load${load}`);
+    return;
+  }
   const floor = await withFloor((target) => measure(target, shape));
   report('floor', floor);
 
@@ -126,18 +139,35 @@ async function main() {
     out(`${name.padEnd(12)}${keys.map((k) => cell(r.latency[k])).join('')}${cell(r.deliveries)}   ${r.ack.p50} / ${r.ack.p99}`);
   }
   out(`${'ratio'.padEnd(12)}${keys.map((k) => cell(`${ratio[k]}x`)).join('')}`);
+  out(`server CPU over the measured seconds: Steadyhand ${steadyhand.serverCpuPercent}%, floor ${floor.serverCpuPercent}% of one core`);
   out(`design aim at 1 tap/s per code: within 1.5x the floor (p50 ${ratio.p50}x, p99 ${ratio.p99}x)`);
 
   machine.loadAverageAtEnd = os.loadavg().map((v) => round(v, 2));
   out(`load average at the end: ${machine.loadAverageAtEnd.join(' ')}`);
+  writeResult({ machine, shape, steadyhand, floor, ratio }, `load${load}`);
+}
+
+function writeResult(result, suffix) {
   const date = new Date();
   const stamp = date.toISOString().replace(/:/g, '-').replace(/\..*/, '');
   const resultsDir = path.join(ROOT, 'bench/results');
   mkdirSync(resultsDir, { recursive: true });
-  const file = path.join(resultsDir, `live-latency-${stamp}-load${load}.json`);
-  writeFileSync(file, JSON.stringify({ date: date.toISOString(), machine, shape, unit: 'ms', steadyhand, floor, ratio }, null, 2) + '\n');
-  out(`written to ${path.relative(ROOT, file)}`);
+  const file = path.join(resultsDir, `live-latency-${stamp}-${suffix}.json`);
+  writeFileSync(file, JSON.stringify({ date: date.toISOString(), unit: 'ms', ...result }, null, 2) + '\n');
+  process.stdout.write(`written to ${path.relative(ROOT, file)}\n`);
 }
+
+/** User plus system CPU seconds of a process so far (Linux /proc), or null elsewhere. */
+function cpuSeconds(pid) {
+  try {
+    const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').replace(/^.*\) /, '').split(' ');
+    // After the command name: state is field 3, utime 14, stime 15 (1-based in proc(5)).
+    return (Number(fields[11]) + Number(fields[12])) / CLOCK_TICKS;
+  } catch {
+    return null;
+  }
+}
+const CLOCK_TICKS = 100;
 
 /** The Steadyhand server as production runs it, on a fresh data folder with the demo people. */
 async function withSteadyhand(work) {
@@ -151,6 +181,7 @@ async function withSteadyhand(work) {
     const watcher = await signIn(baseUrl, 'priya.venkat');
     return await work({
       name: 'Steadyhand',
+      pid: child.pid,
       baseUrl,
       headers: (role) => ({ cookie: (role === 'recorder' ? recorder : watcher).cookie, origin: baseUrl }),
       createCode: async () => {
@@ -175,7 +206,7 @@ async function withFloor(work) {
   const baseUrl = `http://127.0.0.1:${port}`;
   const child = await startChild([fileURLToPath(import.meta.url), '--serve-floor', '--port', String(port), '--db', path.join(dir, 'floor.db')], { PATH: process.env.PATH ?? '' }, baseUrl);
   try {
-    return await work({ name: 'floor', baseUrl, headers: () => ({}), createCode: () => Promise.resolve(randomUUID()) });
+    return await work({ name: 'floor', pid: child.pid, baseUrl, headers: () => ({}), createCode: () => Promise.resolve(randomUUID()) });
   } finally {
     await stopChild(child);
     rmSync(dir, { recursive: true, force: true });
@@ -239,6 +270,13 @@ async function measure(target, shape) {
     { kind: 'shock', joules: 200, synchronized: false },
     { kind: 'rhythm', rhythm: 'vf', pulse: false },
   ];
+  // The server's CPU from the first measured tap to the last tap.
+  let cpuAtStart = null;
+  let wallAtStart = 0;
+  const cpuTimer = setTimeout(() => {
+    cpuAtStart = cpuSeconds(target.pid);
+    wallAtStart = performance.now();
+  }, Math.max(0, start + warmupTaps * period - performance.now()));
   // Codes tap on the same beat but at spread-out phases, as independent teams would.
   await Promise.all(
     rooms.map(async ({ codeId, recorder, device }, i) => {
@@ -262,6 +300,10 @@ async function measure(target, shape) {
     }),
   );
 
+  clearTimeout(cpuTimer);
+  const cpuAtEnd = cpuSeconds(target.pid);
+  const serverCpuPercent =
+    cpuAtStart !== null && cpuAtEnd !== null ? round((100 * (cpuAtEnd - cpuAtStart)) / ((performance.now() - wallAtStart) / 1000), 1) : null;
   // Let the last broadcasts arrive.
   const expected = (warmupTaps + measuredTaps) * rooms.length * WATCHERS;
   const deadline = performance.now() + 10_000;
@@ -278,6 +320,7 @@ async function measure(target, shape) {
     disconnects,
     latency: summary(latencies),
     ack: summary(acks),
+    serverCpuPercent,
   };
 }
 

@@ -46,7 +46,8 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   app.enableShutdownHooks();
   app.set('trust proxy', config.trustProxy ? 1 : false);
   app.disable('x-powered-by');
-  app.setGlobalPrefix('api');
+  // /metrics sits beside /api, where Prometheus looks by default.
+  app.setGlobalPrefix('api', { exclude: ['metrics'] });
   app.useGlobalFilters(new ApiExceptionFilter(app.getHttpAdapter()));
 
   app.use(requestLogger(config.logLevel));
@@ -95,11 +96,14 @@ function absoluteSessionTimeout(limitMs: number, sessions: SessionService): Requ
   };
 }
 
+/** Paths the server answers itself, never with the web app. */
+const isServerPath = (p: string) => p.startsWith('/api/') || p.startsWith('/socket.io') || p === '/metrics';
+
 function serveWebApp(app: NestExpressApplication, webDist: string): void {
   const indexHtml = path.join(webDist, 'index.html');
   if (!existsSync(indexHtml)) {
     app.use((req: Request, res: Response, next: NextFunction) => {
-      if (req.method !== 'GET' || req.path.startsWith('/api/') || req.path.startsWith('/socket.io')) return next();
+      if (req.method !== 'GET' || isServerPath(req.path)) return next();
       res.status(503).type('text').send('The web app is not built yet: run `npm start` (or `pnpm build`).');
     });
     return;
@@ -108,7 +112,7 @@ function serveWebApp(app: NestExpressApplication, webDist: string): void {
   app.useStaticAssets(path.join(webDist, 'assets'), { prefix: '/assets/', immutable: true, maxAge: '365d', index: false });
   app.useStaticAssets(webDist, { index: false, maxAge: 0 });
   app.use((req: Request, res: Response, next: NextFunction) => {
-    if (req.method !== 'GET' || req.path.startsWith('/api/') || req.path.startsWith('/socket.io')) return next();
+    if (req.method !== 'GET' || isServerPath(req.path)) return next();
     res.setHeader('Cache-Control', 'no-cache');
     res.sendFile(indexHtml);
   });

@@ -3,6 +3,7 @@ import { AdminModule } from './admin/admin.module.js';
 import { AttachmentsModule } from './attachments/attachments.module.js';
 import { AuditModule } from './audit/audit.module.js';
 import { AuthModule } from './auth/auth.module.js';
+import { BackupsModule } from './backups/backups.module.js';
 import { CodesModule } from './codes/codes.module.js';
 import { ConfigModule } from './config/config.module.js';
 import type { AppConfig } from './config/config.js';
@@ -11,6 +12,7 @@ import type { DatabaseHandle } from './db/database.js';
 import { DemoModule } from './demo/demo.module.js';
 import { HealthModule } from './health/health.module.js';
 import { MailModule } from './mail/mail.module.js';
+import { MetricsModule } from './metrics/metrics.module.js';
 import { PharmacyModule } from './pharmacy/pharmacy.module.js';
 import { ProtocolModule } from './protocol/protocol.module.js';
 import { QualityModule } from './quality/quality.module.js';
@@ -25,6 +27,7 @@ export class AppModule {
       imports: [
         ConfigModule.forConfig(config),
         DatabaseModule.forHandle(database),
+        MetricsModule,
         AuditModule,
         MailModule,
         UsersModule,
@@ -38,6 +41,7 @@ export class AppModule {
         RecordsModule,
         QualityModule,
         PharmacyModule,
+        BackupsModule,
       ],
     };
   }

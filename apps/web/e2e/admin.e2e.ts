@@ -50,6 +50,10 @@ describe('the admin area, in Chromium', () => {
     await expect.poll(() => page.getByTestId('audit-table').innerText()).toContain('user.disabled');
     expect(await page.getByTestId('audit-table').innerText()).toContain('totp.enrolled');
     await screenshot(page, 'admin-audit');
+
+    await page.getByRole('link', { name: 'Backups' }).click();
+    await expect.poll(() => page.getByText('The server copies the database every 15 minutes').count()).toBe(1);
+    expect(await page.getByText('No copies yet.').count()).toBe(1);
     await context.close();
   });
 });

@@ -19,3 +19,4 @@ export * from './quality.js';
 export * from './reconciliation.js';
 export * from './text.js';
 export * from './csv.js';
+export * from './backups.js';

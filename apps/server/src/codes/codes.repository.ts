@@ -1,16 +1,16 @@
 import { BadRequestException, Inject, Injectable } from '@nestjs/common';
 import type { Code, CodeStatus, NewEntry, Outcome, StoredEntry, WeightSource } from '@steadyhand/shared';
-import { and, asc, desc, eq, gt, isNull } from 'drizzle-orm';
+import { and, desc, eq, isNull } from 'drizzle-orm';
 import type { Statement } from 'better-sqlite3';
 import { DATABASE, DB } from '../db/database.module.js';
 import type { DatabaseHandle, Db } from '../db/database.js';
-import { codes, entries } from '../db/schema/index.js';
+import { codes } from '../db/schema/index.js';
 import { NotCanonicalisable } from '../common/canonical-json.js';
+import { LogReader } from './log-reader.js';
 import { CHAIN_START, entryLinkHash, type EntryLink } from './entry-chain.js';
 import { attachmentsDigest, differingParts, EMPTY_SEAL_STATE, SealKey, type SealPart, type SealState, type StoredSeal } from './record-seal.js';
 
 type CodeRow = typeof codes.$inferSelect;
-type EntryRow = typeof entries.$inferSelect;
 
 export function toCode(row: CodeRow): Code {
   return {
@@ -32,19 +32,6 @@ export function toCode(row: CodeRow): Code {
   };
 }
 
-export function toStoredEntry(row: EntryRow): StoredEntry {
-  return {
-    ...(row.body as unknown as NewEntry),
-    codeId: row.codeId,
-    userId: row.userId,
-    // Only where it was kept: an entry stored before names were kept reads (and hashes) as it did.
-    ...(row.userName !== null ? { userName: row.userName } : {}),
-    cursor: row.cursor,
-    receivedAt: row.receivedAt,
-    recordedAt: row.recordedAt,
-    addendum: row.addendum,
-  };
-}
 
 /** An entries row as SQLite returns it (column names, integers for booleans). */
 interface RawEntryRow {
@@ -88,7 +75,10 @@ export class CodesRepository {
     writeSeal: Statement<[string, number, string, number, string, string, string]>;
     countSignatures: Statement<[string], { n: number }>;
     attachmentList: Statement<[string], { id: string; sha256: string }>;
+    entryCount: Statement<[string], { n: number }>;
   };
+
+  private readonly reader: LogReader;
 
   constructor(
     @Inject(DB) private readonly db: Db,
@@ -96,6 +86,7 @@ export class CodesRepository {
     @Inject(SealKey) private readonly sealKey: SealKey,
   ) {
     const { sqlite } = database;
+    this.reader = new LogReader(db, database);
     this.hot = {
       codeStatus: sqlite.prepare('SELECT status FROM codes WHERE id = ?'),
       entryById: sqlite.prepare('SELECT * FROM entries WHERE id = ?'),
@@ -115,6 +106,7 @@ export class CodesRepository {
       ),
       countSignatures: sqlite.prepare('SELECT count(*) AS n FROM signatures WHERE code_id = ?'),
       attachmentList: sqlite.prepare('SELECT id, sha256 FROM attachments WHERE code_id = ?'),
+      entryCount: sqlite.prepare('SELECT count(*) AS n FROM entries WHERE code_id = ?'),
     };
   }
 
@@ -313,11 +305,7 @@ export class CodesRepository {
 
   /** The code's links in position order. */
   linksOf(codeId: string): EntryLink[] {
-    return this.database.sqlite
-      .prepare<[string], EntryLink>(
-        'SELECT entry_id AS entryId, position, prev_hash AS prevHash, hash FROM entry_links WHERE code_id = ? ORDER BY position',
-      )
-      .all(codeId);
+    return this.reader.linksOf(codeId);
   }
 
   /**
@@ -354,13 +342,25 @@ export class CodesRepository {
     return { added, codes: linkedCodes, failed };
   }
 
+  /** Every code's id, oldest first (the backup check walks them all). */
+  allCodeIds(): string[] {
+    return this.reader.allCodeIds();
+  }
+
+  logReader(): LogReader {
+    return this.reader;
+  }
+
+  /** The ids of a code's entries in cursor order: what a device compares its own copy with. */
+  entryIdsOf(codeId: string): string[] {
+    return this.database.sqlite.prepare<[string], string>('SELECT id FROM entries WHERE code_id = ? ORDER BY cursor').pluck().all(codeId);
+  }
+
+  entryCount(codeId: string): number {
+    return this.hot.entryCount.get(codeId)?.n ?? 0;
+  }
+
   entriesOf(codeId: string, afterCursor = 0): StoredEntry[] {
-    return this.db
-      .select()
-      .from(entries)
-      .where(and(eq(entries.codeId, codeId), gt(entries.cursor, afterCursor)))
-      .orderBy(asc(entries.cursor))
-      .all()
-      .map(toStoredEntry);
+    return this.reader.entriesOf(codeId, afterCursor);
   }
 }

@@ -36,12 +36,20 @@ export class CodesService {
     @Inject(AuditService) private readonly audit: AuditService,
   ) {}
 
-  /** Starts a code. A retried start with the same device-made id returns the code already started. */
-  create(user: SessionUser, input: CreateCodeRequest & { category: 'adult' | 'pediatric' }): { code: Code; created: boolean } {
+  /**
+   * Starts a code. A retried start with the same device-made id returns the code already started.
+   * `refill`: a device starts again a code the server does not know (restored from an older copy),
+   * with the id and details it kept; whoever started it, a code that exists is answered as it is.
+   */
+  create(
+    user: SessionUser,
+    input: CreateCodeRequest & { category: 'adult' | 'pediatric' },
+    options: { refill?: boolean; protocolVersion?: number } = {},
+  ): { code: Code; created: boolean } {
     if (input.id) {
       const existing = this.repo.findCode(input.id);
       if (existing) {
-        if (existing.createdBy !== user.id) throw new ConflictException(`Code ${input.id} already exists`);
+        if (existing.createdBy !== user.id && !options.refill) throw new ConflictException(`Code ${input.id} already exists`);
         return { code: existing, created: false };
       }
     }
@@ -58,15 +66,17 @@ export class CodesService {
       arrestAt: input.arrestAt ? new Date(input.arrestAt).toISOString() : now,
       createdAt: now,
       createdBy: user.id,
-      // The code keeps the protocol in force now, whatever an admin saves later.
-      protocolVersion: this.protocol.currentVersion(),
+      // The code keeps the protocol in force now (or, started again from a device, the one it had), whatever an admin saves later.
+      protocolVersion: this.protocol.knownVersion(options.protocolVersion) ?? this.protocol.currentVersion(),
     });
     this.audit.record({
-      action: 'code.created',
+      action: options.refill ? 'code.refilled' : 'code.created',
       userId: user.id,
       username: user.username,
       codeId: code.id,
-      detail: { category: code.category, protocolVersion: code.protocolVersion },
+      detail: options.refill
+        ? { category: code.category, arrestAt: code.arrestAt, protocolVersion: code.protocolVersion, from: 'device' }
+        : { category: code.category, protocolVersion: code.protocolVersion },
     });
     this.events.emitCodesChanged(code.id);
     return { code, created: true };

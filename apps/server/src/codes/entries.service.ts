@@ -1,7 +1,19 @@
-import { BadRequestException, ConflictException, ForbiddenException, Inject, Injectable, NotFoundException } from '@nestjs/common';
-import { amendEntry, effectiveEntries, hasAnyRole, liveEntries, unchangedFields, WRITER_ROLES, type ClinicalEntry, type NewEntry, type StoredEntry } from '@steadyhand/shared';
+import { BadRequestException, ConflictException, ForbiddenException, Inject, Injectable, NotFoundException, Optional } from '@nestjs/common';
+import {
+  amendEntry,
+  effectiveEntries,
+  hasAnyRole,
+  liveEntries,
+  unchangedFields,
+  WRITER_ROLES,
+  type ClinicalEntry,
+  type NewEntry,
+  type RefillInfo,
+  type StoredEntry,
+} from '@steadyhand/shared';
 import { AuditService } from '../audit/audit.service.js';
 import type { SessionUser } from '../auth/session-user.js';
+import { MetricsService } from '../metrics/metrics.service.js';
 import { CodesRepository } from './codes.repository.js';
 import { EntryEvents } from './entry-events.js';
 
@@ -21,21 +33,27 @@ export class EntriesService {
     @Inject(CodesRepository) private readonly repo: CodesRepository,
     @Inject(EntryEvents) private readonly events: EntryEvents,
     @Inject(AuditService) private readonly audit: AuditService,
+    @Optional() @Inject(MetricsService) private readonly metrics?: MetricsService,
   ) {}
 
   /**
    * `addendum`: the entry is added to a signed record after the fact. Plain entries are refused
    * once the record carries a signature, and addenda before it, so the signed log only grows by
    * entries marked as added later.
+   *
+   * `refill`: a device sends back an entry the server had acknowledged once but no longer holds
+   * (restored from an older copy). It is stored like any entry (its device time kept, received and
+   * recorded now, chained after what the log holds), as an addendum if the record was signed
+   * meanwhile, and the audit trail says it came back from a device.
    */
   add(
     user: SessionUser,
     codeId: string,
     entry: NewEntry,
     receivedAt = new Date().toISOString(),
-    options: { addendum?: boolean } = {},
+    options: { addendum?: boolean; refill?: RefillInfo } = {},
   ): AddEntryResult {
-    const addendum = options.addendum ?? false;
+    const refill = options.refill;
     if (!hasAnyRole(user.roles, WRITER_ROLES)) {
       throw new ForbiddenException('Only a recorder or a team leader can add entries');
     }
@@ -47,9 +65,11 @@ export class EntriesService {
     const earlier = this.repo.findEntry(entry.id);
     if (earlier) {
       if (earlier.codeId !== codeId) throw new ConflictException(`Entry ${entry.id} belongs to another code`);
+      this.metrics?.resends.inc();
       return { entry: earlier, duplicate: true };
     }
     const signed = this.repo.isSigned(codeId);
+    const addendum = options.addendum ?? (refill !== undefined && signed);
     if (signed && !addendum) throw new ConflictException('This record is signed: add an addendum');
     if (!signed && addendum) throw new ConflictException('This record is not signed yet: add a plain entry, not an addendum');
     const target = entry.kind === 'void' || entry.kind === 'amend' ? this.checkCorrection(codeId, entry) : undefined;
@@ -64,12 +84,34 @@ export class EntriesService {
       if (!addendum && endTouched) this.syncCodeStatus(codeId);
     });
     if (!result.duplicate) {
+      this.metrics?.entryCommitted(result.entry, refill !== undefined);
+      if (refill) this.auditRefill(user, codeId, result.entry, refill);
       this.auditEntry(user, codeId, entry, target, addendum);
       const codeStatus = !addendum && endTouched ? (this.repo.codeStatus(codeId) ?? statusBefore) : statusBefore;
       this.events.emitAdded({ codeId, entry: result.entry, cursor: result.entry.cursor }, { codeStatus });
       if (!addendum && endTouched) this.events.emitCodesChanged(codeId);
     }
     return result;
+  }
+
+  private auditRefill(user: SessionUser, codeId: string, stored: StoredEntry, refill: RefillInfo): void {
+    this.audit.record({
+      action: 'entry.refilled',
+      userId: user.id,
+      username: user.username,
+      codeId,
+      detail: {
+        entryId: stored.id,
+        kind: stored.kind,
+        deviceId: stored.deviceId ?? null,
+        seq: stored.seq ?? null,
+        at: stored.at,
+        addendum: stored.addendum,
+        // As the device was told when the server first stored it (before the restore).
+        firstStoredAt: refill.storedAt ?? null,
+        firstStoredBy: refill.storedBy ?? null,
+      },
+    });
   }
 
   /** Corrections and addenda go to the audit trail with who, the old and new values and the reason. */
@@ -104,10 +146,17 @@ export class EntriesService {
     }
   }
 
-  entriesAfter(codeId: string, afterCursor = 0): { entries: StoredEntry[]; cursor: number } {
+  /** The entries after a cursor, and how many the log holds in all (a screen checks its copy with it). */
+  entriesAfter(codeId: string, afterCursor = 0): { entries: StoredEntry[]; cursor: number; count: number } {
     if (!this.repo.codeStatus(codeId)) throw new NotFoundException(`No code with id ${codeId}`);
     const list = this.repo.entriesOf(codeId, afterCursor);
-    return { entries: list, cursor: list.length ? list[list.length - 1]!.cursor : afterCursor };
+    return { entries: list, cursor: list.length ? list[list.length - 1]!.cursor : afterCursor, count: this.repo.entryCount(codeId) };
+  }
+
+  /** What a device compares with the entries it keeps: the ids in the log, and whether the record is signed. */
+  logIds(codeId: string): { exists: false } | { exists: true; ids: string[]; signed: boolean } {
+    if (!this.repo.codeStatus(codeId)) return { exists: false };
+    return { exists: true, ids: this.repo.entryIdsOf(codeId), signed: this.repo.isSigned(codeId) };
   }
 
   /**

@@ -1,5 +1,8 @@
 import { Inject, Injectable, Logger, type OnModuleInit } from '@nestjs/common';
+import type { EntryChainStatus } from '@steadyhand/shared';
 import { CodesRepository } from './codes.repository.js';
+import { verifyEntryChain } from './entry-chain.js';
+import type { ChainCheckSummary } from './log-reader.js';
 import { SealKey } from './record-seal.js';
 
 /**
@@ -7,7 +10,8 @@ import { SealKey } from './record-seal.js';
  * database holds without a link (stored before the chain existed) and seals every record as it
  * is found, before the server takes any tap. On any later start nothing is linked or sealed
  * again: an entry without a link, or a record without its seal, was changed outside the
- * application, and its record says so instead of being silently re-linked.
+ * application, and its record says so instead of being silently re-linked. Also checks chains:
+ * one code's, or every code's (the backup check runs it on a copy of the database).
  */
 @Injectable()
 export class EntryChainService implements OnModuleInit {
@@ -26,5 +30,15 @@ export class EntryChainService implements OnModuleInit {
     for (const f of failed) this.logger.error(`Entry chain: could not link the entries of code ${f.codeId}: ${f.error}`);
     const sealed = this.repo.sealAsFound();
     if (sealed) this.logger.log(`Record seals: sealed ${sealed} records as found (first start with seals)`);
+  }
+
+  verifyCode(codeId: string): EntryChainStatus & { entries: number } {
+    const entries = this.repo.entriesOf(codeId);
+    return { ...verifyEntryChain(entries, this.repo.linksOf(codeId)), entries: entries.length };
+  }
+
+  /** Every code's chain. `pause` runs between codes, so a long check inside the server leaves room for taps. */
+  verifyAll(pause?: () => Promise<void>): Promise<ChainCheckSummary> {
+    return this.repo.logReader().verifyAll(pause);
   }
 }

@@ -1,4 +1,4 @@
-import { HttpException, Inject, Logger, type OnModuleDestroy } from '@nestjs/common';
+import { ForbiddenException, HttpException, Inject, Logger, Optional, type OnModuleDestroy } from '@nestjs/common';
 import {
   ConnectedSocket,
   MessageBody,
@@ -11,10 +11,16 @@ import {
 } from '@nestjs/websockets';
 import {
   codeJoinSchema,
+  codeLogSchema,
+  codeRefillSchema,
   entryAddSchema,
+  hasAnyRole,
   LIVE_NAMESPACE,
   timePingSchema,
+  WRITER_ROLES,
   type CodeJoinAck,
+  type CodeLogAck,
+  type CodeRefillAck,
   type EntryAddAck,
   type LiveClientToServer,
   type LiveError,
@@ -32,7 +38,9 @@ import type { AppConfig } from '../config/config.js';
 import { jsonShapeProblem } from '../common/json-limits.js';
 import { uniqueConflict } from '../common/unique-conflict.js';
 import { describeZodError } from '../common/zod-validation.pipe.js';
+import { MetricsService } from '../metrics/metrics.service.js';
 import { UsersService } from '../users/users.service.js';
+import { CodesService } from './codes.service.js';
 import { EntriesService } from './entries.service.js';
 import { EntryEvents } from './entry-events.js';
 
@@ -81,6 +89,8 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
     @Inject(UsersService) private readonly users: UsersService,
     @Inject(EntriesService) private readonly entries: EntriesService,
     @Inject(EntryEvents) private readonly events: EntryEvents,
+    @Inject(CodesService) private readonly codes: CodesService,
+    @Optional() @Inject(MetricsService) private readonly metrics?: MetricsService,
   ) {}
 
   afterInit(nsp: LiveNamespace): void {
@@ -135,6 +145,8 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
   }
 
   handleConnection(socket: LiveSocket): void {
+    this.metrics?.socketConnections.inc();
+    this.metrics?.socketsOpen.inc();
     void socket.join(BOARD_ROOM);
     // Every message is bounded before any handler sees it: one nested too deep gets a 400
     // acknowledgement, which a device's outbox takes as final (never "retry").
@@ -179,6 +191,7 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
   }
 
   handleDisconnect(socket: LiveSocket): void {
+    this.metrics?.socketsOpen.dec();
     this.userCache.delete(socket.id);
   }
 
@@ -188,9 +201,34 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
       const request = this.parse(codeJoinSchema, payload);
       if (!this.sessionAlive(socket)) return { ok: false, status: 401, error: SESSION_ENDED };
       if (!this.currentUser(socket)) return { ok: false, status: 401, error: 'signed out' };
-      const { entries, cursor } = this.entries.entriesAfter(request.codeId, request.after ?? 0);
+      const { entries, cursor, count } = this.entries.entriesAfter(request.codeId, request.after ?? 0);
       void socket.join(roomOf(request.codeId));
-      return { ok: true, entries, cursor };
+      return { ok: true, entries, cursor, count };
+    });
+  }
+
+  /** The ids in a code's log, for a device that keeps its own entries to send back what is missing. */
+  @SubscribeMessage('code:log')
+  log(@ConnectedSocket() socket: LiveSocket, @MessageBody() payload: unknown): CodeLogAck {
+    return this.answer(() => {
+      const request = this.parse(codeLogSchema, payload);
+      if (!this.sessionAlive(socket)) return { ok: false, status: 401, error: SESSION_ENDED };
+      if (!this.currentUser(socket)) return { ok: false, status: 401, error: 'signed out' };
+      return { ok: true, ...this.entries.logIds(request.codeId) };
+    });
+  }
+
+  /** A device starts again a code this server does not know (restored from an older copy). */
+  @SubscribeMessage('code:refill')
+  refillCode(@ConnectedSocket() socket: LiveSocket, @MessageBody() payload: unknown): CodeRefillAck {
+    return this.answer(() => {
+      const request = this.parse(codeRefillSchema, payload);
+      if (!this.sessionAlive(socket)) return { ok: false, status: 401, error: SESSION_ENDED };
+      const user = this.currentUser(socket);
+      if (!user) return { ok: false, status: 401, error: 'signed out' };
+      if (!hasAnyRole(user.roles, WRITER_ROLES)) throw new ForbiddenException('Only a recorder or a team leader can start a code');
+      const { code, created } = this.codes.create(user, request.code, { refill: true, protocolVersion: request.protocolVersion });
+      return { ok: true, code, created };
     });
   }
 
@@ -210,7 +248,7 @@ export class LiveGateway implements OnGatewayInit<LiveNamespace>, OnGatewayConne
       if (!user) return { ok: false, status: 401, error: 'signed out' };
       // A tap is activity: the idle timeout starts again, as for a request.
       this.sessions.store.touchIdle(socket.data.sid);
-      const { entry, duplicate } = this.entries.add(user, request.codeId, request.entry, receivedAt);
+      const { entry, duplicate } = this.entries.add(user, request.codeId, request.entry, receivedAt, { refill: request.refill });
       return { ok: true, entry, duplicate };
     });
   }

@@ -1,5 +1,6 @@
 import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { isIP } from 'node:net';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { z } from 'zod';
@@ -39,6 +40,14 @@ const envSchema = z.object({
   MAIL_FROM: z.string().min(3).default('Steadyhand <steadyhand@harbourview.example>'),
   /** Largest attachment accepted, in megabytes (fractions allowed). */
   ATTACHMENT_MAX_MB: z.coerce.number().positive().max(1024).default(15),
+  /** Where the database copies go; default DATA_DIR/backups. */
+  BACKUP_DIR: z.string().min(1).optional(),
+  /** Minutes between copies while the server runs; 0 turns the schedule off. */
+  BACKUP_INTERVAL_MINUTES: z.coerce.number().int().min(0).max(7 * 24 * 60).default(15),
+  /** How many copies to keep (96 = a day at the default interval). */
+  BACKUP_KEEP: z.coerce.number().int().min(1).max(100_000).default(96),
+  /** Addresses (or CIDR ranges) that may read /metrics, comma separated. */
+  METRICS_ALLOW: z.string().default('127.0.0.1,::1'),
 });
 
 export interface AppConfig {
@@ -64,6 +73,9 @@ export interface AppConfig {
   fakeSmtp: boolean;
   mail: { from: string; pharmacy: string; reviewers: string };
   attachmentMaxBytes: number;
+  backup: { dir: string; intervalMinutes: number; keep: number };
+  /** Parsed METRICS_ALLOW: exact addresses and CIDR ranges. */
+  metricsAllow: string[];
 }
 
 export class ConfigError extends Error {}
@@ -108,7 +120,30 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     fakeSmtp: e.FAKE_SMTP,
     mail: { from: e.MAIL_FROM, pharmacy: e.PHARMACY_EMAIL, reviewers: e.REVIEWERS_EMAIL },
     attachmentMaxBytes: Math.floor(e.ATTACHMENT_MAX_MB * 1024 * 1024),
+    backup: {
+      dir: path.resolve(baseDir, e.BACKUP_DIR ?? path.join(dataDir, 'backups')),
+      intervalMinutes: e.BACKUP_INTERVAL_MINUTES,
+      keep: e.BACKUP_KEEP,
+    },
+    metricsAllow: parseAllowList(e.METRICS_ALLOW),
   };
+}
+
+/**
+ * METRICS_ALLOW as a list of addresses and CIDR ranges; a word that is neither stops the start,
+ * so a typo never opens (or silently closes) the metrics.
+ */
+export function parseAllowList(text: string): string[] {
+  const items = text.split(',').map((s) => s.trim()).filter(Boolean);
+  for (const item of items) {
+    const [address, bits, extra] = item.split('/');
+    const family = address ? isIP(address) : 0;
+    const bitsOk = bits === undefined || (/^\d{1,3}$/.test(bits) && Number(bits) <= (family === 6 ? 128 : 32));
+    if (!family || !bitsOk || extra !== undefined) {
+      throw new ConfigError(`Invalid configuration:\n  METRICS_ALLOW: "${item}" is not an IP address or a CIDR range (e.g. 127.0.0.1, 10.20.0.0/16, ::1)`);
+    }
+  }
+  return items;
 }
 
 /**

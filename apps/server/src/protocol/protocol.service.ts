@@ -53,6 +53,12 @@ export class ProtocolService implements OnModuleInit {
     return this.db.select({ version: protocolVersions.version }).from(protocolVersions).orderBy(desc(protocolVersions.version)).limit(1).get()?.version ?? 1;
   }
 
+  /** The version if this server has it, else undefined (a device may name one a restored server lacks). */
+  knownVersion(version: number | undefined): number | undefined {
+    if (version === undefined) return undefined;
+    return this.db.select({ version: protocolVersions.version }).from(protocolVersions).where(eq(protocolVersions.version, version)).get()?.version;
+  }
+
   current(): ProtocolSettings {
     return this.settingsOf(this.currentVersion());
   }

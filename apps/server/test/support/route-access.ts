@@ -60,6 +60,9 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
   'DELETE /api/admin/beds/:bedId': { allowed: ['admin'] },
   'GET /api/admin/audit': { allowed: ['admin'] },
   'GET /api/admin/audit.csv': { allowed: ['admin'] },
+  'GET /api/admin/backups': { allowed: ['admin'] },
+  // No session: the address allowlist (METRICS_ALLOW, loopback by default) guards it; metrics.api-spec.ts holds that.
+  'GET /metrics': { allowed: 'public' },
   'POST /api/auth/logout': { allowed: 'public', endsSession: true },
   'GET /api/protocol': { allowed: 'any' },
   'GET /api/protocol/versions/:version': { allowed: 'any' },

@@ -23,6 +23,8 @@ export interface RunningServer {
   dataDir: string;
   port: number;
   stop(): Promise<void>;
+  /** SIGKILL: no shutdown hook runs, as when the machine dies. */
+  kill(): Promise<void>;
   /** Starts the server again on the same port and data folder. */
   restart(): Promise<void>;
 }
@@ -65,15 +67,15 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
       throw new Error(`${(err as Error).message}\n${output.slice(-2000)}`);
     }
   };
-  const stop = () =>
+  const signal = (sig: NodeJS.Signals) =>
     new Promise<void>((resolve) => {
       // This process, not whichever one `child` names by the time the timer fires (after a restart).
       const proc = child;
       if (!proc || proc.exitCode !== null || proc.signalCode !== null) return resolve();
       proc.once('exit', () => resolve());
-      proc.kill('SIGTERM');
+      proc.kill(sig);
       setTimeout(() => proc.kill('SIGKILL'), 5000).unref();
     });
   await launch();
-  return { baseUrl, dataDir, port, stop, restart: launch };
+  return { baseUrl, dataDir, port, stop: () => signal('SIGTERM'), kill: () => signal('SIGKILL'), restart: launch };
 }

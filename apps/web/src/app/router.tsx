@@ -55,6 +55,7 @@ export const routes: RouteObject[] = [
               { path: paths.admin.places.path, lazy: () => import('./routes/admin/places') },
               { path: paths.admin.sessions.path, lazy: () => import('./routes/admin/sessions') },
               { path: paths.admin.audit.path, lazy: () => import('./routes/admin/audit') },
+              { path: paths.admin.backups.path, lazy: () => import('./routes/admin/backups') },
               { path: paths.admin.outbox.path, lazy: () => import('./routes/admin/outbox') },
             ],
           },

@@ -36,6 +36,11 @@ export const paths = {
       path: '/admin/audit',
       getHref: () => '/admin/audit',
     },
+    /** The database copies and their checks. */
+    backups: {
+      path: '/admin/backups',
+      getHref: () => '/admin/backups',
+    },
     /** Mail caught by the development relay (FAKE_SMTP=1). */
     outbox: {
       path: '/admin/outbox',

@@ -5,12 +5,14 @@
  */
 
 export const DB_NAME = 'steadyhand-device';
-const DB_VERSION = 1;
+// 2: the `kept` store (every entry this device recorded, until its record is signed).
+const DB_VERSION = 2;
 
 export const STORES = {
   outbox: 'outbox',
   device: 'device',
   logCache: 'log-cache',
+  kept: 'kept',
 } as const;
 export type StoreName = (typeof STORES)[keyof typeof STORES];
 
@@ -34,6 +36,10 @@ export function openDeviceDb(): Promise<IDBDatabase> {
           db.createObjectStore(STORES.device, { keyPath: 'key' });
         if (!db.objectStoreNames.contains(STORES.logCache))
           db.createObjectStore(STORES.logCache, { keyPath: 'codeId' });
+        if (!db.objectStoreNames.contains(STORES.kept)) {
+          const kept = db.createObjectStore(STORES.kept, { keyPath: 'id' });
+          kept.createIndex('by-code', 'codeId');
+        }
       };
       req.onsuccess = () => {
         const db = req.result;

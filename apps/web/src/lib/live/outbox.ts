@@ -1,11 +1,14 @@
-import type { Code, NewEntry, ProtocolSettings, StoredEntry } from '@steadyhand/shared';
+import type { Code, NewEntry, ProtocolSettings, RefillInfo, StoredEntry } from '@steadyhand/shared';
 import { buildEntry, type EntryFields, type EntryStamp } from './entry-build';
 import { readTx, requestResult, STORES, writeTx } from './idb';
 
 /**
  * The device's outbox: every tap lands here first (strict durability) and leaves only when the
- * server has acknowledged it after its commit. Also keeps the device's identity and sequence
- * counter, and the last known log of each code so a reload shows it at once, offline too.
+ * server has acknowledged it after its commit. Every tap is also kept, in the same transaction,
+ * in the `kept` store, acknowledged or not, until its code's record is signed (or 7 days), so the
+ * device can send it again to a server restored from an older copy. Also keeps the device's
+ * identity and sequence counter, and the last known log of each code so a reload shows it at
+ * once, offline too.
  */
 
 export interface OutboxRecord {
@@ -19,6 +22,21 @@ export interface OutboxRecord {
   status: 'pending' | 'failed';
   error?: string;
   errorStatus?: number;
+  /** Put back in line because a restored server lacked it; sent with what the device knows of its first storing. */
+  refill?: RefillInfo;
+}
+
+/** A tap this device recorded, kept after its acknowledgement until the code's record is signed. */
+export interface KeptRecord {
+  id: string;
+  codeId: string;
+  seq: number;
+  /** Device wall clock when the tap was written (the 7-day limit counts from the code's last one). */
+  keptAt: number;
+  entry: NewEntry;
+  /** From the acknowledgement: when and by whom the server stored it. */
+  storedAt?: string;
+  storedBy?: string;
 }
 
 export interface DeviceIdentity {
@@ -92,7 +110,7 @@ export async function addToOutbox(
   fields: EntryFields,
   stamp: StampWithoutIdentity,
 ): Promise<OutboxRecord> {
-  const record = await writeTx([STORES.device, STORES.outbox], async (tx) => {
+  const record = await writeTx([STORES.device, STORES.outbox, STORES.kept], async (tx) => {
     const device = tx.objectStore(STORES.device);
     const found = (await requestResult(device.get('identity'))) as DeviceIdentity | undefined;
     const { deviceId, seq, next } = takeSeq(found, () => crypto.randomUUID());
@@ -107,6 +125,13 @@ export async function addToOutbox(
     };
     device.put(next);
     tx.objectStore(STORES.outbox).add(rec);
+    tx.objectStore(STORES.kept).put({
+      id: rec.id,
+      codeId,
+      seq,
+      keptAt: rec.createdAt,
+      entry,
+    } satisfies KeptRecord);
     return rec;
   });
   announceChange();
@@ -126,12 +151,71 @@ export async function countOutbox(): Promise<number> {
   return readTx([STORES.outbox], (tx) => requestResult(tx.objectStore(STORES.outbox).count()));
 }
 
-/** Removes an entry after the server acknowledged it (stored, or stored before). */
-export async function removeFromOutbox(id: string): Promise<void> {
-  await writeTx([STORES.outbox], (tx) => {
-    tx.objectStore(STORES.outbox).delete(id);
+/**
+ * The server acknowledged an entry (stored, or stored before): it leaves the outbox and its kept
+ * copy notes when and by whom it was stored, in one transaction.
+ */
+export async function acknowledgeOutbox(record: OutboxRecord, stored: StoredEntry): Promise<void> {
+  await writeTx([STORES.outbox, STORES.kept], async (tx) => {
+    tx.objectStore(STORES.outbox).delete(record.id);
+    const kept = tx.objectStore(STORES.kept);
+    const found = (await requestResult(kept.get(record.id))) as KeptRecord | undefined;
+    kept.put({
+      ...(found ?? {
+        id: record.id,
+        codeId: record.codeId,
+        seq: record.seq,
+        keptAt: record.createdAt,
+        entry: record.entry,
+      }),
+      storedAt: stored.recordedAt,
+      storedBy: stored.userId,
+    } satisfies KeptRecord);
   });
   announceChange();
+}
+
+/** Every kept tap of this device, all codes. */
+export async function readKept(): Promise<KeptRecord[]> {
+  return readTx([STORES.kept], (tx) =>
+    requestResult(tx.objectStore(STORES.kept).getAll() as IDBRequest<KeptRecord[]>),
+  );
+}
+
+/** Forgets a code's kept taps (its record is signed and holds them all, or they are older than the limit). */
+export async function dropKept(codeId: string): Promise<void> {
+  await writeTx([STORES.kept], async (tx) => {
+    const store = tx.objectStore(STORES.kept);
+    const keys = await requestResult(store.index('by-code').getAllKeys(codeId));
+    for (const key of keys) store.delete(key);
+  });
+}
+
+/**
+ * Puts kept taps that a restored server lacks back in the outbox, with their own ids and sequence
+ * numbers, so they are sent in their first order and a repeat is still answered with the stored
+ * row. A tap already waiting in the outbox is left as it is. Resolves with how many were queued.
+ */
+export async function requeueForRefill(records: readonly KeptRecord[]): Promise<number> {
+  let queued = 0;
+  await writeTx([STORES.outbox], async (tx) => {
+    const outbox = tx.objectStore(STORES.outbox);
+    for (const k of records) {
+      if (await requestResult(outbox.getKey(k.id))) continue;
+      outbox.put({
+        id: k.id,
+        codeId: k.codeId,
+        seq: k.seq,
+        createdAt: Date.now(),
+        entry: k.entry,
+        status: 'pending',
+        refill: { ...(k.storedAt ? { storedAt: k.storedAt } : {}), ...(k.storedBy ? { storedBy: k.storedBy } : {}) },
+      } satisfies OutboxRecord);
+      queued++;
+    }
+  });
+  if (queued) announceChange();
+  return queued;
 }
 
 export async function markOutboxFailed(
@@ -160,6 +244,7 @@ export async function retryFailed(id: string): Promise<void> {
         createdAt: Date.now(),
         entry: rec.entry,
         status: 'pending',
+        ...(rec.refill ? { refill: rec.refill } : {}),
       } satisfies OutboxRecord);
   });
   announceChange();

@@ -1,5 +1,6 @@
 import type { EntryAddAck, NewEntry, StoredEntry } from '@steadyhand/shared';
 import { afterEach, describe, expect, it, vi } from 'vitest';
+import type { LiveLink } from './live-socket';
 import type { OutboxRecord } from './outbox';
 import {
   ALARM_AFTER_MS,
@@ -7,6 +8,7 @@ import {
   mergeLog,
   OutboxAlarm,
   outboxHealth,
+  OutboxSender,
   selectToSend,
 } from './sync-engine';
 
@@ -150,5 +152,81 @@ describe('outbox alarm', () => {
     vi.advanceTimersByTime(1_000);
     expect(alarm.raised).toBe(true);
     alarm.stop();
+  });
+});
+
+describe('OutboxSender: the check before sending', () => {
+  /** A live link with just what the sender uses: connect events, acknowledged emits, a record of what was sent. */
+  function fakeLink() {
+    const handlers = new Map<string, ((...args: unknown[]) => void)[]>();
+    const sent: { event: string; payload: unknown; ack: (err: Error | null, res: unknown) => void }[] = [];
+    const socket = {
+      connected: false,
+      on(event: string, fn: (...args: unknown[]) => void) {
+        handlers.set(event, [...(handlers.get(event) ?? []), fn]);
+        return socket;
+      },
+      timeout() {
+        return {
+          emit(event: string, payload: unknown, ack: (err: Error | null, res: unknown) => void) {
+            sent.push({ event, payload, ack });
+          },
+        };
+      },
+    };
+    const fire = (event: string) => {
+      for (const fn of handlers.get(event) ?? []) fn();
+    };
+    return {
+      link: { socket, touch: () => undefined } as unknown as LiveLink,
+      sent,
+      connect() {
+        socket.connected = true;
+        fire('connect');
+      },
+      disconnect() {
+        socket.connected = false;
+        fire('disconnect');
+      },
+    };
+  }
+
+  const flush = () => new Promise((resolve) => setTimeout(resolve, 0));
+
+  it('sends nothing after a (re)connect until the check has finished, then the oldest first, with what a refill carries', async () => {
+    // happy-dom has no IndexedDB: the sender works from the records it is handed and says it cannot read the outbox.
+    const quiet = vi.spyOn(console, 'error').mockImplementation(() => undefined);
+    const fake = fakeLink();
+    const sender = new OutboxSender(fake.link);
+    let finish = () => undefined as void;
+    let checks = 0;
+    sender.setBeforeSend(() => {
+      checks++;
+      return new Promise<void>((resolve) => (finish = resolve));
+    });
+    fake.connect();
+    const refilled: OutboxRecord = { ...rec(3, 0), refill: { storedAt: '2026-03-04T07:42:10.090Z' } };
+    sender.add(rec(9, 0));
+    sender.add(refilled);
+    await flush();
+    expect(fake.sent).toEqual([]);
+
+    finish();
+    await vi.waitFor(() => expect(fake.sent).toHaveLength(1));
+    expect(fake.sent[0]).toMatchObject({
+      event: 'entry:add',
+      payload: { codeId: 'code-1', entry: { id: uuid(3) }, refill: { storedAt: '2026-03-04T07:42:10.090Z' } },
+    });
+
+    // The link drops and comes back: the check runs again before anything more is sent.
+    fake.disconnect();
+    fake.connect();
+    expect(checks).toBe(2);
+    await flush();
+    expect(fake.sent).toHaveLength(1);
+    finish();
+    await vi.waitFor(() => expect(fake.sent).toHaveLength(2));
+    expect((fake.sent[1]?.payload as { entry: NewEntry }).entry.id).toBe(uuid(3));
+    quiet.mockRestore();
   });
 });

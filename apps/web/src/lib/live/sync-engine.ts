@@ -10,11 +10,11 @@ import {
 } from '@steadyhand/shared';
 import type { LiveLink } from './live-socket';
 import {
+  acknowledgeOutbox,
   markOutboxFailed,
   onOutboxChange,
   readLogCache,
   readOutbox,
-  removeFromOutbox,
   writeLogCache,
   type OutboxRecord,
 } from './outbox';
@@ -29,6 +29,8 @@ export const ALARM_AFTER_MS = 60_000;
 export const ACK_TIMEOUT_MS = 10_000;
 /** Wait before resending after a server error or a timeout. */
 export const RETRY_DELAY_MS = 2_000;
+/** The most a connection's check before sending (the refill) may hold the outbox back. */
+export const BEFORE_SEND_LIMIT_MS = 30_000;
 
 /**
  * The log a screen shows: stored entries by id (the server's copy wins over the outbox's), plus
@@ -178,6 +180,9 @@ export class OutboxSender {
   private loaded: Promise<void>;
   private reloading: Promise<void> | null = null;
   private reloadAgain = false;
+  private beforeSend: (() => Promise<unknown>) | null = null;
+  /** False from a (re)connect until its check before sending has finished. */
+  private gateOpen = true;
 
   constructor(private readonly link: LiveLink) {
     this.loaded = this.reload();
@@ -185,13 +190,44 @@ export class OutboxSender {
       void this.reload().then(() => this.kick());
     });
     link.socket.on('connect', () => {
+      if (this.beforeSend) this.runBeforeSend();
       // Let the open codes join first (their handlers were registered on the same event).
-      queueMicrotask(() => this.kick());
+      else queueMicrotask(() => this.kick());
     });
     link.socket.on('disconnect', () => {
       this.generation += 1;
       this.inFlight.clear();
     });
+  }
+
+  /**
+   * Work to finish on every (re)connect before anything is sent: the refill check, which may
+   * start a code again and put entries a restored server lacks back in line, before taps that
+   * come after them. Bounded by BEFORE_SEND_LIMIT_MS, so taps never wait on it for ever.
+   */
+  setBeforeSend(work: () => Promise<unknown>): void {
+    this.beforeSend = work;
+    if (this.link.socket.connected) this.runBeforeSend();
+  }
+
+  private runBeforeSend(): void {
+    const work = this.beforeSend;
+    if (!work) return;
+    const generation = this.generation;
+    this.gateOpen = false;
+    let timer: ReturnType<typeof setTimeout> | undefined;
+    const limit = new Promise<void>((resolve) => {
+      timer = setTimeout(resolve, BEFORE_SEND_LIMIT_MS);
+    });
+    void Promise.race([work(), limit])
+      .catch((err: unknown) => console.error('the check before sending failed', err))
+      .finally(() => {
+        clearTimeout(timer);
+        // A link that dropped meanwhile runs the check again on its next connect.
+        if (generation !== this.generation) return;
+        this.gateOpen = true;
+        void this.reload().then(() => this.kick());
+      });
   }
 
   getRecords(): readonly OutboxRecord[] {
@@ -246,7 +282,7 @@ export class OutboxSender {
 
   /** Sends what is waiting, if the link is up and nothing is in flight. */
   kick(): void {
-    if (!this.link.socket.connected) return;
+    if (!this.link.socket.connected || !this.gateOpen) return;
     const [next] = selectToSend(this.records, this.inFlight);
     if (!next) return;
     this.send(next);
@@ -259,7 +295,11 @@ export class OutboxSender {
       .timeout(ACK_TIMEOUT_MS)
       .emit(
         'entry:add',
-        { codeId: record.codeId, entry: record.entry },
+        {
+          codeId: record.codeId,
+          entry: record.entry,
+          ...(record.refill ? { refill: record.refill } : {}),
+        },
         (err: Error | null, ack: EntryAddAck) => {
           if (generation !== this.generation) return; // the link dropped meanwhile; resent on reconnect
           this.link.touch();
@@ -273,7 +313,7 @@ export class OutboxSender {
     try {
       if (outcome === 'stored' && ack?.ok) {
         for (const l of this.ackListeners) l(record, ack.entry);
-        await removeFromOutbox(record.id);
+        await acknowledgeOutbox(record, ack.entry);
         this.records = this.records.filter((r) => r.id !== record.id);
       } else if (outcome === 'refused' && ack && !ack.ok) {
         await markOutboxFailed(record.id, ack.error, ack.status);
@@ -298,6 +338,21 @@ export class OutboxSender {
   private emit(): void {
     for (const l of this.listeners) l();
   }
+}
+
+/**
+ * Whether this device's copy of a log, merged with what a join returned, holds another number of
+ * entries than the server says the log holds (`count` is absent from older servers).
+ */
+export function logCopyDiffers(
+  stored: ReadonlyMap<string, StoredEntry>,
+  received: readonly StoredEntry[],
+  count: number | undefined,
+): boolean {
+  if (count === undefined) return false;
+  let size = stored.size;
+  for (const e of received) if (!stored.has(e.id)) size++;
+  return size !== count;
 }
 
 /* ---------------------------------------------------------------------------------------------
@@ -414,9 +469,15 @@ export class CodeSync {
     this.schedulePersist();
   }
 
-  private join(): void {
+  /**
+   * Joins the code's room with the last cursor seen. When the server's count of the log differs
+   * from this copy after the merge (a server restored from an older copy reuses cursors, or this
+   * copy missed something), joins again from the start and takes the server's log as it stands;
+   * entries still waiting in the outbox keep showing as waiting.
+   */
+  private join(fromStart = false): void {
     if (!this.loaded) return; // joins once the cache is read, so `after` is right
-    const after = this.cursor;
+    const after = fromStart ? 0 : this.cursor;
     this.link.socket
       .timeout(ACK_TIMEOUT_MS)
       .emit('code:join', { codeId: this.codeId, after }, (err: Error | null, ack: CodeJoinAck) => {
@@ -428,8 +489,16 @@ export class CodeSync {
           return;
         }
         this.joinError = null;
-        this.joined = true;
+        if (fromStart) {
+          this.stored.clear();
+          this.cursor = ack.cursor;
+        }
         this.cursor = Math.max(this.cursor, ack.cursor);
+        if (!fromStart && logCopyDiffers(this.stored, ack.entries, ack.count)) {
+          this.join(true);
+          return;
+        }
+        this.joined = true;
         this.store(ack.entries);
         this.sender.kick();
       });

@@ -21,6 +21,7 @@ import {
   retryFailed,
   type OutboxRecord,
 } from './outbox';
+import { LogRefill } from './refill';
 import {
   CodeSync,
   OutboxAlarm,
@@ -37,6 +38,9 @@ function getSender(): OutboxSender {
     const link = getLiveLink();
     getClockSync().start(link);
     sender = new OutboxSender(link);
+    // On every (re)connect: send back what a restored server lacks, before any newer tap.
+    const refill = new LogRefill(link);
+    sender.setBeforeSend(() => refill.run());
   }
   return sender;
 }

@@ -10,6 +10,7 @@ const SECTIONS = [
   { to: paths.admin.sessions.getHref(), label: 'Sessions' },
   { to: paths.admin.audit.getHref(), label: 'Audit trail' },
   { to: paths.admin.protocol.getHref(), label: 'Protocol settings' },
+  { to: paths.admin.backups.getHref(), label: 'Backups' },
   { to: paths.admin.outbox.getHref(), label: 'Sent mail' },
 ];
 

@@ -1,4 +1,4 @@
-import type { AdminUser, AuditPage, CreateUserRequest, Places, Role, SessionInfo } from '@steadyhand/shared';
+import type { AdminUser, AuditPage, BackupList, CreateUserRequest, Places, Role, SessionInfo } from '@steadyhand/shared';
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
 
@@ -90,4 +90,9 @@ export function useOutbox() {
     retry: false,
     refetchInterval: 10_000,
   });
+}
+
+/** The database copies in BACKUP_DIR with their checks, newest first. */
+export function useBackups() {
+  return useQuery({ queryKey: ['admin', 'backups'], queryFn: async () => (await api.get('/api/admin/backups')) as BackupList, refetchInterval: 60_000 });
 }
