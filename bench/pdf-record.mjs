@@ -11,7 +11,7 @@
 // The two alternate within each run so both see the same machine state. Results go to
 // bench/results/pdf-record-<date>.json (git-ignored).
 import { randomUUID } from 'node:crypto';
-import { generateKeyPairSync, sign } from 'node:crypto';
+import { createHash, generateKeyPairSync, sign } from 'node:crypto';
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import os from 'node:os';
@@ -99,7 +99,8 @@ function makeCode() {
 const record = makeCode();
 // The PDF prints the chain's head beside the digest.
 const chain = { valid: true, length: record.entries.length, head: record.entries.reduce((prev, e) => entryLinkHash(prev, e), CHAIN_START) };
-const { privateKey } = generateKeyPairSync('ed25519');
+const { privateKey, publicKey } = generateKeyPairSync('ed25519');
+const keyId = createHash('sha256').update(publicKey.export({ format: 'der', type: 'spki' })).digest('hex').slice(0, 16);
 
 async function recordPdf() {
   const digest = recordDigest(record);
@@ -108,8 +109,8 @@ async function recordPdf() {
   const signature = sign(null, Buffer.from(pdfStampText({ recordId: record.code.id, digest, generatedAt })), privateKey).toString('base64url');
   return renderPdf(
     buildRecordPdf({
-      record, digest, chain, status: 'draft', summary, settings: DEFAULT_PROTOCOL, signatures: [], people, timeZone: 'UTC', generatedAt,
-      stamp: formatPdfStamp({ recordId: record.code.id, digest, signature, generatedAt }),
+      record, digest, chain, status: 'draft', summary, settings: DEFAULT_PROTOCOL, signatures: [], people, timeZone: 'UTC', generatedAt, keyId,
+      stamp: formatPdfStamp({ recordId: record.code.id, digest, signature, generatedAt, keyId }),
     }),
   );
 }

@@ -64,6 +64,32 @@ export interface RecordSignature {
   valid: boolean;
   /** Who signed (a user id); on the record's own view, so a screen can tell "you signed this". */
   signerId?: string;
+  /**
+   * The server key that made the signature (`GET /api/records/public-keys`); a signature stored
+   * before key ids existed names the installation's first key. On the record view and verification.
+   */
+  keyId?: string;
+}
+
+/**
+ * One of the server's Ed25519 keys for records, as `GET /api/records/public-keys` lists them:
+ * `keyId` is the first 16 hex digits of `fingerprint`, the SHA-256 of the key's DER
+ * SubjectPublicKeyInfo. A key signs from `validFrom` (null: the first key of an installation made
+ * before key ids, in use since it was installed) until `validUntil` (null: the key signing now).
+ */
+export interface RecordPublicKey {
+  keyId: string;
+  algorithm: 'Ed25519';
+  fingerprint: string;
+  publicKeyPem: string;
+  validFrom: string | null;
+  validUntil: string | null;
+  current: boolean;
+}
+
+/** `GET /api/records/public-keys`: oldest first; the last one signs now. */
+export interface RecordPublicKeys {
+  keys: RecordPublicKey[];
 }
 
 export const RECORD_FORMAT = 'steadyhand-record/1';

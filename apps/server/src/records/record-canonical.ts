@@ -55,18 +55,25 @@ export function pdfStampText(p: PdfStamp): string {
   return canonicalText({ recordId: p.recordId, digest: p.digest, generatedAt: p.generatedAt });
 }
 
+/** A stamp as written into a PDF: the server signature over the stamp and the id of the key that made it. */
+export interface SignedPdfStamp extends PdfStamp {
+  signature: string;
+  /** Absent in copies printed before key ids: those were stamped by the first key. */
+  keyId?: string;
+}
+
 /** The stamp as written into the PDF's Keywords and read back from the file's bytes. */
-export function formatPdfStamp(p: PdfStamp & { signature: string }): string {
-  return `steadyhand-record:${p.recordId} sha256:${p.digest} sig:${p.signature} at:${p.generatedAt}`;
+export function formatPdfStamp(p: SignedPdfStamp): string {
+  return `steadyhand-record:${p.recordId} sha256:${p.digest} sig:${p.signature} at:${p.generatedAt}${p.keyId ? ` key:${p.keyId}` : ''}`;
 }
 
 const STAMP_PATTERN =
-  /steadyhand-record:([0-9A-Za-z-]{1,64}) sha256:([0-9a-f]{64}) sig:([A-Za-z0-9_-]{20,200}) at:(\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}(?:\.\d{1,3})?Z)/;
+  /steadyhand-record:([0-9A-Za-z-]{1,64}) sha256:([0-9a-f]{64}) sig:([A-Za-z0-9_-]{20,200}) at:(\d{4}-\d{2}-\d{2}T\d{2}:\d{2}:\d{2}(?:\.\d{1,3})?Z)(?: key:([0-9a-f]{16}))?/;
 
 /** Finds the stamp in a PDF's bytes (the document information dictionary is not compressed). */
-export function readPdfStamp(bytes: Buffer): (PdfStamp & { signature: string }) | undefined {
+export function readPdfStamp(bytes: Buffer): SignedPdfStamp | undefined {
   const match = STAMP_PATTERN.exec(bytes.toString('latin1'));
   if (!match) return undefined;
-  const [, recordId, digest, signature, generatedAt] = match as unknown as [string, string, string, string, string];
-  return { recordId, digest, signature, generatedAt };
+  const [, recordId, digest, signature, generatedAt, keyId] = match as unknown as [string, string, string, string, string, string | undefined];
+  return { recordId, digest, signature, generatedAt, ...(keyId ? { keyId } : {}) };
 }

@@ -59,6 +59,8 @@ export interface RecordPdfInput {
   people: ReadonlyMap<string, string>;
   timeZone: string;
   generatedAt: string;
+  /** The server key that stamps this copy (listed at GET /api/records/public-keys). */
+  keyId: string;
   /** The verification stamp for the Keywords field. */
   stamp: string;
 }
@@ -443,7 +445,7 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
       stack: [
         { text: [{ text: `${sig.meaningText}: `, bold: true }, { text: sig.printedName, bold: true }] },
         {
-          text: `Signed ${clock.dateTime(sig.signedAt)} ${clock.zone}, password re-entered at signing. Server check of this signature: ${sig.valid ? 'verified' : 'FAILED, this signature does not match the record'}.`,
+          text: `Signed ${clock.dateTime(sig.signedAt)} ${clock.zone}, password re-entered at signing. Server key ${sig.keyId ?? 'unknown'}. Server check of this signature: ${sig.valid ? 'verified' : 'FAILED, this signature does not match the record'}.`,
           style: 'small',
         },
       ],
@@ -495,7 +497,7 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
       ['Arrest recognised', `${clock.date(code.arrestAt)}, ${clock.time(code.arrestAt)}`],
       ['Clock times', `${clock.zone}, from the server-corrected device clocks`],
       ['Record id', code.id],
-      ['Copy made', `${clock.dateTime(input.generatedAt)} ${clock.zone}`],
+      ['Copy made', `${clock.dateTime(input.generatedAt)} ${clock.zone}, stamped with server key ${input.keyId}`],
     ]),
     heading('Summary'),
     timeTable,
@@ -523,7 +525,7 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
       text: [
         'Meaning of the signatures. "Recorded by": the signer made this record and attests that it is complete and accurate. ',
         '"Reviewed and confirmed by": the team leader reviewed the record and confirms it. ',
-        `Each signature is bound to this record by its SHA-256 digest and the server's Ed25519 signature; to check a copy, upload it on the verification page or enter the digest printed at the foot of each page.`,
+        `Each signature is bound to this record by its SHA-256 digest and the server's Ed25519 signature, made with the server key named beside it (the server lists its keys, with the period each signed in, at /api/records/public-keys); to check a copy, upload it on the verification page or enter the digest printed at the foot of each page.`,
       ],
       style: 'small',
       margin: [0, 6, 0, 0],

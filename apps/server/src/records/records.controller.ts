@@ -8,6 +8,7 @@ import {
   WRITER_ROLES,
   type NewEntry,
   type RecordListItem,
+  type RecordPublicKeys,
   type RecordView,
   type RecordSignature,
   type RecordStatus,
@@ -97,6 +98,13 @@ export class RecordsController {
   @Header('Content-Type', 'application/x-pem-file')
   publicKey(): string {
     return this.records.publicKeyPem();
+  }
+
+  /** Every key the server has signed records with, oldest first, with the period each signed in. */
+  @Roles('any')
+  @Get('records/public-keys')
+  publicKeys(): RecordPublicKeys {
+    return this.records.publicKeys();
   }
 
   /** A PDF as multipart `file`, or JSON `{ digest, recordId? }`. */

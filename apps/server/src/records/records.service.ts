@@ -6,6 +6,7 @@ import {
   Injectable,
   NotFoundException,
   Optional,
+  type OnModuleInit,
 } from '@nestjs/common';
 import {
   hasAnyRole,
@@ -15,6 +16,7 @@ import {
   summarize,
   type NewEntry,
   type RecordListItem,
+  type RecordPublicKeys,
   type RecordSignature,
   type RecordView,
   type RecordStatus,
@@ -54,7 +56,7 @@ import {
   type CanonicalRecord,
   type RecordCode,
 } from './record-canonical.js';
-import { loadOrCreateRecordKeys, signText, verifyText, type RecordKeys } from './record-keys.js';
+import { keyFor, loadRecordKeyRing, periodText, publicKeyView, signText, verifyText, withinPeriod, type RecordKeyRing } from './record-keys.js';
 import { buildRecordPdf, renderPdf } from './record-pdf.js';
 import { SignaturesRepository, type SignatureRow } from './signatures.repository.js';
 
@@ -72,8 +74,8 @@ function withoutUnsetLaterFields(code: RecordCode): RecordCode {
 }
 
 @Injectable()
-export class RecordsService {
-  private keys: RecordKeys | undefined;
+export class RecordsService implements OnModuleInit {
+  private keys: RecordKeyRing | undefined;
 
   constructor(
     @Inject(APP_CONFIG) private readonly config: AppConfig,
@@ -90,14 +92,35 @@ export class RecordsService {
     @Optional() @Inject(MailService) private readonly mail?: MailService,
   ) {}
 
-  /** The key pair, made on first use. */
-  private recordKeys(): RecordKeys {
-    this.keys ??= loadOrCreateRecordKeys(this.config.dataDir);
+  /** A missing or mismatched signing key stops the start, saying what to do, rather than the first signature. */
+  onModuleInit(): void {
+    this.recordKeys();
+  }
+
+  /**
+   * Every public key the server has signed records with and the private key signing now, read
+   * once: `pnpm keys:rotate` runs with the server stopped, so the next start reads the new key.
+   */
+  private recordKeys(): RecordKeyRing {
+    this.keys ??= loadRecordKeyRing(this.config.dataDir);
     return this.keys;
   }
 
+  /** The key signing now. */
   publicKeyPem(): string {
-    return this.recordKeys().publicKeyPem;
+    return this.recordKeys().current.publicKeyPem;
+  }
+
+  /** Every key, oldest first, with the period it signed in. */
+  publicKeys(): RecordPublicKeys {
+    const ring = this.recordKeys();
+    return { keys: ring.keys.map((key) => publicKeyView(key, ring)) };
+  }
+
+  /** Not before the current key began, so what it signs is always dated within its period. */
+  private signingTime(at: number): string {
+    const from = this.recordKeys().current.validFrom;
+    return new Date(from === null ? at : Math.max(at, Date.parse(from))).toISOString();
   }
 
   // --- the record ----------------------------------------------------------------------------
@@ -122,11 +145,24 @@ export class RecordsService {
   }
 
   /**
-   * A person's signature counts when the server's Ed25519 signature verifies over its own
-   * fields (the record id included, so a copied row fails) and its digest is the record as it
-   * stood when it was signed (so any changed byte since fails).
+   * A person's signature counts when the server's Ed25519 signature verifies, with the key it
+   * names and dated within that key's period, over its own fields (the record id included, so a
+   * copied row fails) and its digest is the record as it stood when it was signed (so any changed
+   * byte since fails). `problem` says why not, when it is about the key.
    */
-  private signatureValid(row: SignatureRow, record: CanonicalRecord): boolean {
+  private signatureCheck(row: SignatureRow, record: CanonicalRecord): { valid: boolean; keyId: string | undefined; problem?: string } {
+    const key = keyFor(this.recordKeys(), row.keyId);
+    const what = `The "${SIGNATURE_MEANING_TEXT[row.meaning]}" signature of ${row.printedName}`;
+    if (!key) {
+      return {
+        valid: false,
+        keyId: row.keyId ?? undefined,
+        problem: `${what} was made with server key ${row.keyId}, which this server does not hold: put the list of public keys in DATA_DIR/keys back from where it is kept (docs/operations.md, "Key rotation").`,
+      };
+    }
+    if (!withinPeriod(key, row.signedAt)) {
+      return { valid: false, keyId: key.keyId, problem: `${what} is dated ${row.signedAt}, outside the period of server key ${key.keyId} (${periodText(key)}).` };
+    }
     const payload = signaturePayloadText({
       recordId: row.codeId,
       digest: row.recordDigest,
@@ -135,9 +171,9 @@ export class RecordsService {
       meaning: row.meaning,
       signedAt: row.signedAt,
     });
-    if (row.codeId !== record.code.id) return false;
-    if (!verifyText(this.recordKeys().publicKey, payload, row.serverSignature)) return false;
-    return recordDigest(recordAsOf(record, row.signedAt)) === row.recordDigest;
+    const valid =
+      row.codeId === record.code.id && verifyText(key.publicKey, payload, row.serverSignature) && recordDigest(recordAsOf(record, row.signedAt)) === row.recordDigest;
+    return { valid, keyId: key.keyId };
   }
 
   private statusOf(rows: SignatureRow[]): RecordStatus {
@@ -174,18 +210,20 @@ export class RecordsService {
     const record = this.canonicalRecord(id);
     const rows = this.signatures.ofCode(id);
     const chain = verifyEntryChain(record.entries, this.codes.linksOf(id));
-    const signatures = rows.map((r) => ({
+    const checks = rows.map((r) => this.signatureCheck(r, record));
+    const signatures = rows.map((r, i) => ({
       printedName: r.printedName,
       meaning: r.meaning,
       meaningText: SIGNATURE_MEANING_TEXT[r.meaning],
       signedAt: r.signedAt,
-      valid: this.signatureValid(r, record),
+      valid: checks[i]!.valid,
       signerId: r.userId,
+      keyId: checks[i]!.keyId,
     }));
     const problems = [
       ...(chain.valid ? [] : [`The entry chain is broken at position ${chain.brokenAt.position} (entry ${chain.brokenAt.entryId}): ${chain.brokenAt.reason}.`]),
       ...this.seals.problems(id),
-      ...signatures.filter((sig) => !sig.valid).map((sig) => `The "${sig.meaningText}" signature of ${sig.printedName} does not verify against this record.`),
+      ...signatures.flatMap((sig, i) => (sig.valid ? [] : [checks[i]!.problem ?? `The "${sig.meaningText}" signature of ${sig.printedName} does not verify against this record.`])),
       ...addendumProblems(record, rows),
     ];
     return {
@@ -290,12 +328,10 @@ export class RecordsService {
       const digest = this.canonical(() => recordDigest(record));
       // Not earlier than any stored entry, so the record "as of" this signature holds all it signed.
       const latest = Math.max(Date.now(), ...record.entries.map((e) => Date.parse(e.recordedAt)), ...record.attachments.map((a) => Date.parse(a.uploadedAt)));
-      const signedAt = new Date(latest).toISOString();
-      const serverSignature = signText(
-        this.recordKeys().privateKey,
-        signaturePayloadText({ recordId: id, digest, signerId: user.id, printedName, meaning: body.meaning, signedAt }),
-      );
-      const signatureRow: SignatureRow = { id: randomUUID(), codeId: id, userId: user.id, printedName, meaning: body.meaning, signedAt, recordDigest: digest, serverSignature };
+      const signedAt = this.signingTime(latest);
+      const key = this.recordKeys().current;
+      const serverSignature = signText(key.privateKey, signaturePayloadText({ recordId: id, digest, signerId: user.id, printedName, meaning: body.meaning, signedAt }));
+      const signatureRow: SignatureRow = { id: randomUUID(), codeId: id, userId: user.id, printedName, meaning: body.meaning, signedAt, recordDigest: digest, serverSignature, keyId: key.keyId };
       this.signatures.insert(signatureRow);
       return { signatureRow, digest, signedAt };
     });
@@ -304,14 +340,14 @@ export class RecordsService {
       userId: user.id,
       username: user.username,
       codeId: id,
-      detail: { signatureId: signatureRow.id, meaning: body.meaning, printedName, signedAt, digest },
+      detail: { signatureId: signatureRow.id, meaning: body.meaning, printedName, signedAt, digest, keyId: signatureRow.keyId },
     });
 
     const rows = this.signatures.ofCode(id);
     const status = this.statusOf(rows);
     if (status === 'signed') this.notifySigned(id, rows);
     return {
-      signature: { printedName, meaning: body.meaning, meaningText: SIGNATURE_MEANING_TEXT[body.meaning], signedAt, valid: true },
+      signature: { printedName, meaning: body.meaning, meaningText: SIGNATURE_MEANING_TEXT[body.meaning], signedAt, valid: true, keyId: signatureRow.keyId ?? undefined },
       status,
     };
   }
@@ -342,8 +378,9 @@ export class RecordsService {
     const timeline = this.codesService.timelineOf(record.code, record.entries);
     const settings = timeline.protocol;
     const summary = summarize(timeline);
-    const generatedAt = new Date().toISOString();
-    const signature = signText(this.recordKeys().privateKey, pdfStampText({ recordId: id, digest, generatedAt }));
+    const generatedAt = this.signingTime(Date.now());
+    const key = this.recordKeys().current;
+    const signature = signText(key.privateKey, pdfStampText({ recordId: id, digest, generatedAt }));
     const definition = buildRecordPdf({
       record,
       digest,
@@ -356,7 +393,8 @@ export class RecordsService {
       people: this.peopleOf(record),
       timeZone: this.timeZone(),
       generatedAt,
-      stamp: formatPdfStamp({ recordId: id, digest, signature, generatedAt }),
+      keyId: key.keyId,
+      stamp: formatPdfStamp({ recordId: id, digest, signature, generatedAt, keyId: key.keyId }),
     });
     const buffer = await renderPdf(definition);
     // The file's own hash, so verification can tell this exact file from an edited one.
@@ -365,7 +403,7 @@ export class RecordsService {
       userId: user.id,
       username: user.username,
       codeId: id,
-      detail: { digest, generatedAt, status: view.status, fileSha256: sha256Hex(buffer) },
+      detail: { digest, generatedAt, status: view.status, fileSha256: sha256Hex(buffer), keyId: key.keyId },
     });
     return { buffer, filename: `steadyhand-record-${id}.pdf` };
   }
@@ -404,8 +442,19 @@ export class RecordsService {
     if (bytes.subarray(0, 5).toString('latin1') !== '%PDF-') return { valid: false, reason: 'This file is not a PDF.' };
     const stamp = readPdfStamp(bytes);
     if (!stamp) return { valid: false, reason: 'This PDF carries no Steadyhand record stamp: it was not made by Steadyhand, or its metadata was removed.' };
-    if (!verifyText(this.recordKeys().publicKey, pdfStampText(stamp), stamp.signature)) {
+    // A copy printed before key ids were stamped was made by the first key.
+    const key = keyFor(this.recordKeys(), stamp.keyId);
+    if (!key) {
+      return {
+        valid: false,
+        reason: `This file was stamped with server key ${stamp.keyId}, which this server does not hold: it was made by another server, or this server's list of public keys was lost (docs/operations.md, "Key rotation").`,
+      };
+    }
+    if (!verifyText(key.publicKey, pdfStampText(stamp), stamp.signature)) {
       return { valid: false, reason: "The server signature in this file does not verify: the file was altered, or it was not made by this server." };
+    }
+    if (!withinPeriod(key, stamp.generatedAt)) {
+      return { valid: false, reason: `This file is dated ${stamp.generatedAt}, outside the period of server key ${key.keyId} that stamped it (${periodText(key)}).` };
     }
     const result = await this.verifyAgainst(stamp.recordId, stamp.digest);
     if (!result.valid || !result.record) return result;

@@ -103,6 +103,7 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
   'GET /api/codes/:id/record': { allowed: 'any' },
   'GET /api/codes/:id/record.pdf': { allowed: 'any' },
   'GET /api/records/public-key': { allowed: 'any' },
+  'GET /api/records/public-keys': { allowed: 'any' },
   'POST /api/records/verify': { allowed: 'any', body: { digest: '0'.repeat(64) } },
   // Quality review: reviewers and admins only. The fixture code is running, so writes answer 409.
   'GET /api/quality/codes': { allowed: ['reviewer', 'admin'] },

@@ -22,6 +22,11 @@ export const signatures = sqliteTable(
     signedAt: text('signed_at').notNull(),
     recordDigest: text('record_digest').notNull(),
     serverSignature: text('server_signature').notNull(),
+    /**
+     * The server key that made `serverSignature` (its id in DATA_DIR/keys, GET /api/records/public-keys).
+     * Null for signatures stored before keys were rotated: those were made by the first key.
+     */
+    keyId: text('key_id'),
   },
   (t) => [index('signatures_code_idx').on(t.codeId)],
 );

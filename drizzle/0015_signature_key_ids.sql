@@ -1,0 +1,1 @@
+ALTER TABLE `signatures` ADD `key_id` text;
