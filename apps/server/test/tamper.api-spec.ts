@@ -283,6 +283,14 @@ describe('tampering with a record', () => {
       });
       await expectDetected(made.id, /entry chain is broken/);
     });
+
+    it('24. a signature said to be made by a key the server does not hold', async () => {
+      const made = await signed();
+      withoutTriggers(sqlite, ['signatures_refuse_update'], () => {
+        sqlite.prepare("UPDATE signatures SET key_id = '0123456789abcdef' WHERE code_id = ? AND meaning = 'recorded-by'").run(made.id);
+      });
+      await expectDetected(made.id, /signature of Maren Holt, RN was made with server key 0123456789abcdef, which this server does not hold/);
+    });
   });
 
   describe('on a record not signed yet', () => {
