@@ -153,7 +153,7 @@ describe('rotating the record signing key', () => {
 
     const rotated = await keysRotate(dataDir);
     expect(rotated.code, rotated.stderr).toBe(0);
-    expect(rotated.stdout).toContain(`Retired key ${firstKey!.keyId} (signed installation to `);
+    expect(rotated.stdout).toContain(`Retired key ${firstKey!.keyId} (signed from installation to `);
     const newKeyId = /New key ([0-9a-f]{16}) signs from/.exec(rotated.stdout)?.[1];
     expect(newKeyId).toBeDefined();
 

@@ -53,8 +53,14 @@ function osUser(): string | null {
 
 /** `pnpm keys:rotate`. Exit code 0 rotated, 2 bad arguments, 1 refused (nothing changed). */
 function main(): number {
-  const { values } = parseArgs({ options: { help: { type: 'boolean' } }, strict: true });
-  if (values.help) {
+  let help: boolean | undefined;
+  try {
+    help = parseArgs({ options: { help: { type: 'boolean' } }, strict: true }).values.help;
+  } catch (err) {
+    process.stderr.write(`${(err as Error).message}\n\n${USAGE}\n`);
+    return 2;
+  }
+  if (help) {
     process.stdout.write(USAGE + '\n');
     return 0;
   }
@@ -68,18 +74,28 @@ function main(): number {
     return 1;
   }
 
-  const result = rotateRecordKey(config.dataDir, {
-    notBefore: hasDatabase ? latestSigned(config.databaseFile) : null,
-  });
+  const { retired, current, keys, listFile, retiredPrivateKeyFound } = rotateRecordKey(
+    config.dataDir,
+    {
+      notBefore: hasDatabase ? latestSigned(config.databaseFile) : null,
+    },
+  );
   const keyFile = path.join(config.dataDir, 'keys', RECORD_KEY_FILE);
+  if (retired) {
+    const old = retiredPrivateKeyFound
+      ? 'its private key is replaced by the new one'
+      : 'its private key was already missing';
+    process.stdout.write(
+      `Retired key ${retired.keyId} (signed from ${periodText(retired)}); ${old}.\n`,
+    );
+  } else {
+    process.stdout.write('There was no record signing key yet: made the first one.\n');
+  }
   process.stdout.write(
-    `Retired key ${result.retired.keyId} (signed ${periodText(result.retired)})${result.retiredPrivateKeyFound ? '; its private key is removed from DATA_DIR/keys' : '; its private key was already missing'}.\n`,
+    `New key ${current.keyId} signs from ${current.validFrom} (private key ${keyFile}).\n`,
   );
   process.stdout.write(
-    `New key ${result.current.keyId} signs from ${result.current.validFrom} (private key ${keyFile}).\n`,
-  );
-  process.stdout.write(
-    `Public keys kept in ${result.listFile} (${result.keys.length}): ${result.keys.map((k) => k.keyId).join(', ')}. Every earlier record keeps verifying.\n`,
+    `Public keys kept in ${listFile} (${keys.length}): ${keys.map((k) => k.keyId).join(', ')}. Every earlier record keeps verifying.\n`,
   );
 
   if (hasDatabase) {
@@ -91,9 +107,9 @@ function main(): number {
         userId: null,
         username: 'command-line',
         detail: {
-          retiredKeyId: result.retired.keyId,
-          keyId: result.current.keyId,
-          at: result.current.validFrom,
+          retiredKeyId: retired?.keyId ?? null,
+          keyId: current.keyId,
+          at: current.validFrom,
           osUser: osUser(),
         },
       });
@@ -102,7 +118,7 @@ function main(): number {
     }
   }
   process.stdout.write(
-    'Start the server now, then copy DATA_DIR/keys to where the keys are kept, replacing the earlier copy (docs/operations.md, "Key rotation").\n',
+    'Start the server now. Then copy DATA_DIR/keys to where the keys are kept, replacing the earlier copy, and destroy the copies of the retired private key (docs/operations.md, "Key rotation").\n',
   );
   return 0;
 }

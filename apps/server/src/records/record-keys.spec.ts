@@ -47,6 +47,12 @@ describe('the record signing keys', () => {
     // The list holds public keys only.
     expect(readFileSync(listFile(dir), 'utf8')).not.toContain('PRIVATE KEY');
     expect(loadRecordKeyRing(dir).current.keyId).toBe(ring.current.keyId);
+
+    // A rotation before any key existed makes the first key, and retires nothing that never signed.
+    const fresh = dataDir();
+    const made = rotateRecordKey(fresh);
+    expect(made.retired).toBeNull();
+    expect(loadRecordKeyRing(fresh).keys.map((k) => k.keyId)).toEqual([made.current.keyId]);
   });
 
   it('takes the key of an installation from before key ids as the first key, since installation, for signatures without an id', () => {

@@ -157,12 +157,7 @@ function readPrivateKey(file: string): KeyObject {
 function writeList(file: string, keys: readonly RecordKeyEntry[]): void {
   const list = {
     format: KEY_LIST_FORMAT,
-    keys: keys.map(({ keyId, publicKeyPem, validFrom, validUntil }) => ({
-      keyId,
-      publicKeyPem,
-      validFrom,
-      validUntil,
-    })),
+    keys: keys.map(entryOf),
   };
   writeDurably(file, JSON.stringify(list, null, 2) + '\n');
 }
@@ -240,14 +235,21 @@ function readList(file: string): RecordKey[] {
  * - a rotation cut short after the list named the new key: its pending private key is put in place;
  *   one cut short before: the pending file is removed (it never signed anything).
  */
-function openKeyFiles(dataDir: string): { listFile: string; keyFile: string; keys: RecordKey[] } {
+function openKeyFiles(dataDir: string): {
+  listFile: string;
+  keyFile: string;
+  keys: RecordKey[];
+  made: boolean;
+} {
   const dir = keysDir(dataDir);
   const keyFile = path.join(dir, RECORD_KEY_FILE);
   const listFile = path.join(dir, RECORD_PUBLIC_KEYS_FILE);
   const pendingFile = keyFile + PENDING_SUFFIX;
+  let made = false;
 
   if (!existsSync(listFile)) {
     if (!existsSync(keyFile)) {
+      made = true;
       try {
         writeNewFile(keyFile, newPrivateKeyPem());
       } catch (err) {
@@ -286,7 +288,7 @@ function openKeyFiles(dataDir: string): { listFile: string; keyFile: string; key
     else rmSync(pendingFile);
     syncDir(dir);
   }
-  return { listFile, keyFile, keys };
+  return { listFile, keyFile, keys, made };
 }
 
 /**
@@ -354,8 +356,8 @@ export function publicKeyView(key: RecordKey, ring: RecordKeyRing): RecordPublic
 }
 
 export interface RotationResult {
-  /** The key that signed until now (its private key is gone from DATA_DIR/keys). */
-  retired: RecordKeyEntry;
+  /** The key that signed until now (its private key is gone from DATA_DIR/keys); null when there was none yet. */
+  retired: RecordKeyEntry | null;
   /** The new key, signing from `validFrom`. */
   current: RecordKeyEntry;
   keys: RecordKeyEntry[];
@@ -379,8 +381,17 @@ export function rotateRecordKey(
   dataDir: string,
   options: { now?: Date; notBefore?: string | null } = {},
 ): RotationResult {
-  const { keyFile, listFile, keys } = openKeyFiles(dataDir);
+  const { keyFile, listFile, keys, made } = openKeyFiles(dataDir);
   const current = keys[keys.length - 1]!;
+  // No key yet: the one just made is the new key (retiring it at once would list a key that never signed).
+  if (made)
+    return {
+      retired: null,
+      current,
+      keys: keys.map(entryOf),
+      listFile,
+      retiredPrivateKeyFound: false,
+    };
   const retiredPrivateKeyFound = existsSync(keyFile);
   if (retiredPrivateKeyFound) {
     const found = keyIdOf(createPublicKey(readPrivateKey(keyFile)));
@@ -400,9 +411,6 @@ export function rotateRecordKey(
 
   const pem = newPrivateKeyPem();
   const publicKey = createPublicKey(createPrivateKey(pem));
-  const pendingFile = keyFile + PENDING_SUFFIX;
-  writeDurably(pendingFile, pem);
-
   const retired: RecordKeyEntry = {
     keyId: current.keyId,
     publicKeyPem: current.publicKeyPem,
@@ -415,26 +423,23 @@ export function rotateRecordKey(
     validFrom: at,
     validUntil: null,
   };
-  const entries: RecordKeyEntry[] = [
-    ...keys
-      .slice(0, -1)
-      .map(({ keyId, publicKeyPem, validFrom, validUntil }) => ({
-        keyId,
-        publicKeyPem,
-        validFrom,
-        validUntil,
-      })),
-    retired,
-    next,
-  ];
-  if (keys.some((k) => k.keyId === next.keyId))
+  if (keys.some((k) => k.keyId === next.keyId)) {
     throw new RecordKeyError(
       'Not rotated: the new key has the id of an earlier one (a chance of 1 in 2^64); run the command again.',
     );
+  }
+  const entries: RecordKeyEntry[] = [...keys.slice(0, -1).map(entryOf), retired, next];
+
+  const pendingFile = keyFile + PENDING_SUFFIX;
+  writeDurably(pendingFile, pem);
   writeList(listFile, entries);
   renameSync(pendingFile, keyFile);
   syncDir(path.dirname(keyFile));
   return { retired, current: next, keys: entries, listFile, retiredPrivateKeyFound };
+}
+
+function entryOf({ keyId, publicKeyPem, validFrom, validUntil }: RecordKeyEntry): RecordKeyEntry {
+  return { keyId, publicKeyPem, validFrom, validUntil };
 }
 
 /** Ed25519 over the UTF-8 bytes of a canonical string, as base64url. */
