@@ -137,6 +137,13 @@ describe('after the code: review, correct, attach, sign twice, print and verify,
     expect(await leader.getByTestId('signature-recorded-by').innerText()).toContain(
       'Signature verified',
     );
+    // Each signature names the server key that made it (GET /api/records/public-keys lists them).
+    expect(
+      await leader
+        .getByTestId('signature-reviewed-confirmed')
+        .getByTestId('signature-key')
+        .innerText(),
+    ).toMatch(/^Server key [0-9a-f]{16}$/);
     await screenshot(leader, 'record-review-signed');
 
     // The PDF: both signature lines, the corrected value with the first one, the digest; no draft mark.
@@ -170,9 +177,9 @@ describe('after the code: review, correct, attach, sign twice, print and verify,
         timeout: 20_000,
       })
       .toBe('true');
-    expect(await leader.getByTestId('verify-result').innerText()).toContain(
-      '4 West Medical, bed 12',
-    );
+    const verified = await leader.getByTestId('verify-result').innerText();
+    expect(verified).toContain('4 West Medical, bed 12');
+    expect(verified).toMatch(/server key [0-9a-f]{16} \(verified\)/);
     await screenshot(leader, 'record-verify-valid');
     const bytes = readFileSync(pdfPath);
     const middle = Math.floor(bytes.length / 2);

@@ -77,6 +77,11 @@ function SignatureSlot({ codeId, meaning, signature, blockedBecause }: Signature
               ? '✓ Signature verified against the record as signed'
               : '✕ This signature no longer matches the record'}
           </Text>
+          {signature.keyId ? (
+            <Text textStyle="sm" color="fg.muted" data-testid="signature-key">
+              Server key {signature.keyId}
+            </Text>
+          ) : null}
         </Stack>
       ) : blockedBecause ? (
         <Text color="fg.muted">{blockedBecause}</Text>

@@ -54,7 +54,8 @@ function VerifyAnswer({ result }: { result: VerifyRecordResult }) {
             <List.Root ps="5">
               {r.signatures.map((s) => (
                 <List.Item key={`${s.meaning}-${s.signedAt}`}>
-                  {s.meaningText} {s.printedName}, {formatDateTime(s.signedAt)}{' '}
+                  {s.meaningText} {s.printedName}, {formatDateTime(s.signedAt)}
+                  {s.keyId ? `, server key ${s.keyId}` : ''}{' '}
                   {s.valid ? '(verified)' : '(does not verify)'}
                 </List.Item>
               ))}
