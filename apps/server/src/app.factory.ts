@@ -15,6 +15,8 @@ import { openDatabase, type DatabaseHandle } from './db/database.js';
 import { JSON_MAX_BYTES, jsonDepthLimit } from './common/json-limits.js';
 import { requestLogger } from './common/request-logger.js';
 import { ApiExceptionFilter } from './common/api-exception.filter.js';
+import { assertRecordKeysPresent } from './records/record-keys.js';
+import { databaseHasSignatures } from './records/signatures.repository.js';
 
 const NEST_LEVELS: Record<AppConfig['logLevel'], LogLevel[] | false> = {
   fatal: ['fatal'],
@@ -38,6 +40,12 @@ export interface CreatedApp {
  */
 export async function createApp(config: AppConfig): Promise<CreatedApp> {
   const database = openDatabase(config.databaseFile, config.migrationsDir);
+  try {
+    assertRecordKeysPresent(config.dataDir, databaseHasSignatures(database.sqlite));
+  } catch (err) {
+    database.sqlite.close();
+    throw err;
+  }
   const levels = NEST_LEVELS[config.logLevel];
   const app = await NestFactory.create<NestExpressApplication>(AppModule.forRoot(config, database), {
     logger: levels === false ? false : new ConsoleLogger({ json: true, logLevels: levels }),

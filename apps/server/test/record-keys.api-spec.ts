@@ -1,5 +1,5 @@
 import { spawn } from 'node:child_process';
-import { readFileSync, rmSync } from 'node:fs';
+import { readdirSync, readFileSync, renameSync, rmSync } from 'node:fs';
 import path from 'node:path';
 import type { RecordPublicKeys, RecordView } from '@steadyhand/shared';
 import Database from 'better-sqlite3';
@@ -153,7 +153,9 @@ describe('rotating the record signing key', () => {
 
     const rotated = await keysRotate(dataDir);
     expect(rotated.code, rotated.stderr).toBe(0);
-    expect(rotated.stdout).toContain(`Retired key ${firstKey!.keyId} (signed from installation to `);
+    expect(rotated.stdout).toContain(
+      `Retired key ${firstKey!.keyId} (signed from installation to `,
+    );
     const newKeyId = /New key ([0-9a-f]{16}) signs from/.exec(rotated.stdout)?.[1];
     expect(newKeyId).toBeDefined();
 
@@ -228,5 +230,18 @@ describe('rotating the record signing key', () => {
       retiredKeyId: firstKey!.keyId,
       keyId: newKeyId,
     });
+
+    // A server started on this database without its keys (a rebuilt disk) refuses, rather than make new ones.
+    await app.close();
+    renameSync(path.join(dataDir, 'keys'), path.join(dataDir, 'keys-elsewhere'));
+    await expect(startTestApp({ dataDir })).rejects.toThrow(
+      /holds signed records, but .* has no record signing key/,
+    );
+    // Nothing was made but the session secret the configuration reads first.
+    expect(readdirSync(path.join(dataDir, 'keys'))).toEqual(['session-secret']);
+    rmSync(path.join(dataDir, 'keys'), { recursive: true });
+    renameSync(path.join(dataDir, 'keys-elsewhere'), path.join(dataDir, 'keys'));
+    await start();
+    expect((await view(second)).integrity.valid).toBe(true);
   }, 120_000);
 });

@@ -6,6 +6,8 @@ import { z } from 'zod';
 import { AppModule } from '../app.module.js';
 import { ConfigError, loadConfig } from '../config/config.js';
 import { openDatabase } from '../db/database.js';
+import { assertRecordKeysPresent } from '../records/record-keys.js';
+import { databaseHasSignatures } from '../records/signatures.repository.js';
 import { UsersService } from '../users/users.service.js';
 
 const USAGE = `Usage: STEADYHAND_PASSWORD=... pnpm user:add --username night.recorder --name "Night Recorder" --roles recorder,leader
@@ -38,6 +40,12 @@ async function main(): Promise<number> {
   }
   const config = { ...loadConfig(), logLevel: 'silent' as const };
   const database = openDatabase(config.databaseFile, config.migrationsDir);
+  try {
+    assertRecordKeysPresent(config.dataDir, databaseHasSignatures(database.sqlite));
+  } catch (err) {
+    database.sqlite.close();
+    throw err;
+  }
   const ctx = await NestFactory.createApplicationContext(AppModule.forRoot(config, database), { logger: false });
   try {
     const user = await ctx.get(UsersService).create(

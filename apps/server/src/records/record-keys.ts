@@ -292,6 +292,26 @@ function openKeyFiles(dataDir: string): {
 }
 
 /**
+ * Refuses to start a server on a database that holds signed records while DATA_DIR/keys has no
+ * record signing key and no list of keys (a server rebuilt without its keys): it would make new
+ * keys, and every earlier record would fail its checks. Checked before the app is built, so
+ * nothing is made or sealed first. `pnpm keys:rotate` is the deliberate way to a new key.
+ */
+export function assertRecordKeysPresent(dataDir: string, hasSignatures: boolean): void {
+  const dir = path.join(dataDir, 'keys');
+  if (
+    !hasSignatures ||
+    existsSync(path.join(dir, RECORD_KEY_FILE)) ||
+    existsSync(path.join(dir, RECORD_PUBLIC_KEYS_FILE))
+  )
+    return;
+  throw new RecordKeyError(
+    `The database holds signed records, but ${dir} has no record signing key. Put DATA_DIR/keys back from where it is kept before starting (docs/operations.md, "Key rotation"). ` +
+      'If it is lost for good, run `pnpm keys:rotate` to make a new key: records signed before will then fail their signature checks.',
+  );
+}
+
+/**
  * The server's keys for records: every public key it has signed with (kept in DATA_DIR/keys, never
  * in the database, so someone who can write the database cannot add a key of their own) and the
  * private key of the one signing now. Made on first use; refuses to go on when the private key is

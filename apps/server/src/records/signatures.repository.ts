@@ -1,4 +1,5 @@
 import { Inject, Injectable } from '@nestjs/common';
+import type Database from 'better-sqlite3';
 import type { SignatureMeaning } from '@steadyhand/shared';
 import { and, asc, eq, inArray, like } from 'drizzle-orm';
 import { DB } from '../db/database.module.js';
@@ -9,6 +10,11 @@ import type { RecordAttachment } from './record-canonical.js';
 export type SignatureRow = typeof signatures.$inferSelect;
 
 export const DEFAULT_FACILITY = 'Steadyhand';
+
+/** Whether any record was ever signed in this database; read before the app is built (see assertRecordKeysPresent). */
+export function databaseHasSignatures(sqlite: Database.Database): boolean {
+  return sqlite.prepare('SELECT 1 FROM signatures LIMIT 1').get() !== undefined;
+}
 
 /** Signatures (append-only by trigger) and the other rows a record is made of. */
 @Injectable()
