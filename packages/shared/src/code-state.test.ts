@@ -4,58 +4,26 @@ import { resolveDrug } from './drug-catalogue.js';
 import { foldLog } from './timeline.js';
 import { DEFAULT_PROTOCOL, type ProtocolSettings } from './protocol.js';
 import type { LogEntry } from './effective-log.js';
-import type { DoseUnit, Rhythm } from './entries.js';
+import {
+  abs,
+  amendOf,
+  cprStart,
+  cprStop,
+  drug,
+  end,
+  epi,
+  iso,
+  note,
+  rearrest,
+  rhythm,
+  rosc,
+  S,
+  shock,
+  t,
+  voidOf,
+} from './log-fixtures.test-support.js';
 
-// --- fixtures -------------------------------------------------------------------------------
-
-// tsconfig has no DOM or Node types; the Web Crypto global exists in Node and browsers.
-const uuid = (): string => (globalThis as unknown as { crypto: { randomUUID(): string } }).crypto.randomUUID();
-
-/** Arrest recognised at 07:42:10 (the brief's invented demo scenario). Fixture times are offsets from it. */
-const ARREST_MS = Date.parse('2026-03-04T07:42:10.000Z');
-const S = 1000;
-const MIN = 60 * S;
-/** Offset written as minutes and seconds, e.g. t(6, 30) = 06:30 after the arrest. */
-const t = (min: number, sec = 0): number => min * MIN + sec * S;
-const iso = (offsetMs: number): string => new Date(ARREST_MS + offsetMs).toISOString();
-const base = (offsetMs: number) => ({ id: uuid(), at: iso(offsetMs) });
-
-const cprStart = (at: number): LogEntry => ({ ...base(at), kind: 'cpr', action: 'start' });
-const cprStop = (at: number, reason?: 'rhythm-check' | 'shock' | 'airway' | 'rosc' | 'other'): LogEntry =>
-  reason ? { ...base(at), kind: 'cpr', action: 'stop', reason } : { ...base(at), kind: 'cpr', action: 'stop' };
-const rhythm = (at: number, r: Rhythm, pulse = false): LogEntry => ({ ...base(at), kind: 'rhythm', rhythm: r, pulse });
-const shock = (at: number, joules: number, synchronized = false): LogEntry => ({
-  ...base(at),
-  kind: 'shock',
-  joules,
-  synchronized,
-});
-const drug = (at: number, name: string, dose: number, unit: DoseUnit = 'mg'): LogEntry => ({
-  ...base(at),
-  kind: 'drug',
-  drug: name,
-  dose,
-  unit,
-  route: 'iv',
-});
-const epi = (at: number, dose = 1): LogEntry => drug(at, 'epinephrine', dose);
-const rosc = (at: number): LogEntry => ({ ...base(at), kind: 'rosc' });
-const rearrest = (at: number): LogEntry => ({ ...base(at), kind: 'rearrest' });
-const end = (at: number): LogEntry => ({ ...base(at), kind: 'end', outcome: 'sustained-rosc' });
-const note = (at: number, text: string): LogEntry => ({ ...base(at), kind: 'note', text });
-const voidOf = (at: number, target: LogEntry): LogEntry => ({
-  ...base(at),
-  kind: 'void',
-  target: target.id,
-  reason: 'tapped by mistake',
-});
-const amendOf = (at: number, target: LogEntry, changes: Record<string, unknown>): LogEntry => ({
-  ...base(at),
-  kind: 'amend',
-  target: target.id,
-  changes,
-  reason: 'corrected after the code',
-});
+// --- fixtures (shared builders; times are offsets from the demo arrest at 07:42:10) -----------
 
 function live(
   entries: LogEntry[],
@@ -63,9 +31,8 @@ function live(
   opts: { settings?: ProtocolSettings; weightKg?: number | null; recentCount?: number } = {},
 ): CodeState {
   const timeline = foldLog({ arrestAt: iso(0), category: 'adult', weightKg: opts.weightKg ?? null }, entries, opts.settings ?? DEFAULT_PROTOCOL);
-  return stateAt(timeline, ARREST_MS + nowOffsetMs, opts.recentCount !== undefined ? { recentCount: opts.recentCount } : {});
+  return stateAt(timeline, abs(nowOffsetMs), opts.recentCount !== undefined ? { recentCount: opts.recentCount } : {});
 }
-const abs = (offsetMs: number): number => ARREST_MS + offsetMs;
 
 // --- tests ----------------------------------------------------------------------------------
 
@@ -114,7 +81,7 @@ describe('arrest clock and status', () => {
     const later = live(entries, t(45));
     expect(later.status).toBe('ended');
     expect(later.endedAtMs).toBe(abs(t(20)));
-    expect(later.outcome).toBe('sustained-rosc');
+    expect(later.outcome).toBe('rosc');
     expect(later.clockMs).toBe(abs(t(20)));
     expect(later.arrestElapsedMs).toBe(t(20));
     expect(later.epinephrine.sinceLastMs).toBe(t(16));

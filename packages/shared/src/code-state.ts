@@ -1,9 +1,9 @@
 import { nextDose, nextShockJoules, type DosingSheet, type EnergyStep, type NextDose } from './dosing.js';
-import { EPINEPHRINE_KEY, roundTotal } from './drug-catalogue.js';
+import { EPINEPHRINE_KEY } from './drug-catalogue.js';
 import type { EffectiveEntry } from './effective-log.js';
 import type { Outcome, Rhythm } from './entries.js';
 import type { CodeCategory } from './codes.js';
-import type { CprStopReason, DoseFact, DrugAggregate, RhythmClass, Timeline } from './timeline.js';
+import { aggregateDoses, type CprStopReason, type DoseFact, type DrugAggregate, type RhythmClass, type Timeline } from './timeline.js';
 
 /**
  * Step two of the clinical core: what the screens show at one moment of a code, read from its
@@ -179,46 +179,6 @@ const CLASS_WORDS: Record<RhythmClass, string> = {
 
 const SEVERITY_RANK: Record<ReminderSeverity, number> = { urgent: 0, attention: 1, info: 2 };
 
-/** Drug totals from the doses given by a moment: the same counting as the fold's, on a prefix. */
-export function aggregateDoses(doses: readonly DoseFact[], weightKg: number | null, units: ReadonlyMap<string, DrugAggregate>): DrugAggregate[] {
-  const out = new Map<string, DrugAggregate>();
-  for (const d of doses) {
-    let agg = out.get(d.key);
-    if (!agg) {
-      const unit = units.get(d.key)?.catalogueUnit ?? null;
-      agg = {
-        key: d.key,
-        label: d.label,
-        inCatalogue: d.inCatalogue,
-        catalogueUnit: unit,
-        doseCount: 0,
-        firstAtMs: d.atMs,
-        lastAtMs: d.atMs,
-        byUnit: [],
-        totalInCatalogueUnit: d.inCatalogue ? 0 : null,
-        allConverted: true,
-        totalPerKg: null,
-      };
-      out.set(d.key, agg);
-    }
-    agg.doseCount += 1;
-    agg.lastAtMs = d.atMs;
-    let u = agg.byUnit.find((x) => x.unit === d.unit);
-    if (!u) {
-      u = { unit: d.unit, total: 0, doseCount: 0 };
-      agg.byUnit.push(u);
-    }
-    u.total = roundTotal(u.total + d.dose);
-    u.doseCount += 1;
-    if (d.inCatalogue) {
-      if (d.doseInCatalogueUnit === null) agg.allConverted = false;
-      else agg.totalInCatalogueUnit = roundTotal((agg.totalInCatalogueUnit ?? 0) + d.doseInCatalogueUnit);
-      agg.totalPerKg = weightKg === null || agg.totalInCatalogueUnit === null ? null : roundTotal(agg.totalInCatalogueUnit / weightKg);
-    }
-  }
-  return [...out.values()];
-}
-
 /** Sustained ROSC as far as a moment shows it: held for the time, broken before it, or not yet known. */
 export function sustainedRoscAt(timeline: Timeline, clockMs: number): boolean | null {
   const need = timeline.protocol.sustainedRoscSeconds * 1000;
@@ -310,7 +270,7 @@ export function stateAt(timeline: Timeline, atMs: number, options: StateAtOption
   const shocks = upTo(timeline.shocks);
   const checks = upTo(timeline.rhythmChecks);
   const etco2 = upTo(timeline.etco2);
-  const drugTotals = aggregateDoses(doses, weight, new Map(timeline.drugs.map((d) => [d.key, d])));
+  const drugTotals = aggregateDoses(doses, weight);
 
   const epiDoses = doses.filter((d) => d.key === EPINEPHRINE_KEY);
   const lastEpi = epiDoses[epiDoses.length - 1] ?? null;

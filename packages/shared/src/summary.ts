@@ -1,9 +1,9 @@
 import { EPINEPHRINE_KEY } from './drug-catalogue.js';
 import type { DoseUnit, Outcome, Rhythm } from './entries.js';
-import { aggregateDoses, sustainedRoscAt, TAPS_NOT_SENSOR } from './code-state.js';
+import { sustainedRoscAt, TAPS_NOT_SENSOR } from './code-state.js';
 import type { LogEntry } from './effective-log.js';
 import type { ProtocolSettings } from './protocol.js';
-import { documentedRhythm, foldLog, type CprStopReason, type DoseFact, type DrugAggregate, type Timeline, type TimelineCode } from './timeline.js';
+import { aggregateDoses, documentedRhythm, foldLog, type CprStopReason, type DoseFact, type DrugAggregate, type Timeline, type TimelineCode } from './timeline.js';
 
 export type { CprStopReason };
 /**
@@ -412,7 +412,7 @@ export function summarize(timeline: Timeline, options: SummarizeOptions = {}): C
     }
   }
   const weight = timeline.code.weightKg !== null && timeline.code.weightKg > 0 ? timeline.code.weightKg : null;
-  const drugs = aggregateDoses(doseFacts, weight, new Map(timeline.drugs.map((d) => [d.key, d])));
+  const drugs = aggregateDoses(doseFacts, weight);
 
   const epiFacts = doseFacts.filter((d) => d.key === EPINEPHRINE_KEY);
   const epinephrineDoses: EpinephrineDose[] = epiFacts.map((d) => ({ id: d.id, at: iso(d.atMs), dose: d.dose, unit: d.unit }));

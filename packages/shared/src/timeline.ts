@@ -125,6 +125,8 @@ export interface DoseFact {
   dose: number;
   unit: DoseUnit;
   route: string;
+  /** The catalogue's unit for this drug; null for free text. */
+  catalogueUnit: DoseUnit | null;
   /** 1-based: the nth dose of this drug. */
   number: number;
   /** The dose in the catalogue's unit; null for free text or a unit that does not convert. */
@@ -233,6 +235,45 @@ function expectedDoseFor(drug: DrugDosing | undefined, number: number): number |
   return high ?? low;
 }
 
+/** Drug totals from doses (all of a code's, or those given by a moment): one total per unit as recorded, and in the catalogue unit. */
+export function aggregateDoses(doses: readonly DoseFact[], weightKg: number | null): DrugAggregate[] {
+  const out = new Map<string, DrugAggregate>();
+  for (const d of doses) {
+    let agg = out.get(d.key);
+    if (!agg) {
+      agg = {
+        key: d.key,
+        label: d.label,
+        inCatalogue: d.inCatalogue,
+        catalogueUnit: d.catalogueUnit,
+        doseCount: 0,
+        firstAtMs: d.atMs,
+        lastAtMs: d.atMs,
+        byUnit: [],
+        totalInCatalogueUnit: d.inCatalogue ? 0 : null,
+        allConverted: true,
+        totalPerKg: null,
+      };
+      out.set(d.key, agg);
+    }
+    agg.doseCount += 1;
+    agg.lastAtMs = d.atMs;
+    let u = agg.byUnit.find((x) => x.unit === d.unit);
+    if (!u) {
+      u = { unit: d.unit, total: 0, doseCount: 0 };
+      agg.byUnit.push(u);
+    }
+    u.total = roundTotal(u.total + d.dose);
+    u.doseCount += 1;
+    if (d.inCatalogue) {
+      if (d.doseInCatalogueUnit === null) agg.allConverted = false;
+      else agg.totalInCatalogueUnit = roundTotal((agg.totalInCatalogueUnit ?? 0) + d.doseInCatalogueUnit);
+      agg.totalPerKg = weightKg === null || agg.totalInCatalogueUnit === null ? null : roundTotal(agg.totalInCatalogueUnit / weightKg);
+    }
+  }
+  return [...out.values()];
+}
+
 /** A dose this much above the sheet's is flagged: rounding to what a syringe measures is not an error. Our own choice. */
 const ABOVE_DOSE_TOLERANCE = 0.005;
 
@@ -269,7 +310,7 @@ export function foldLog(code: TimelineCode, entries: readonly LogEntry[], protoc
   const rhythmChecks: RhythmCheckFact[] = [];
   const shocks: ShockFact[] = [];
   const doses: DoseFact[] = [];
-  const drugs = new Map<string, DrugAggregate & { converted: number }>();
+  const given = new Map<string, { count: number; converted: number }>();
   const airway: Entry<'airway'>[] = [];
   const access: Entry<'access'>[] = [];
   const etco2: Timeline['etco2'] = [];
@@ -419,46 +460,18 @@ export function foldLog(code: TimelineCode, entries: readonly LogEntry[], protoc
       }
       case 'drug': {
         const { key, label, def } = catalogue.identity(e.drug);
-        let agg = drugs.get(key);
-        if (!agg) {
-          agg = {
-            key,
-            label,
-            inCatalogue: def !== undefined,
-            catalogueUnit: def?.unit ?? null,
-            doseCount: 0,
-            firstAtMs: t,
-            lastAtMs: t,
-            byUnit: [],
-            totalInCatalogueUnit: def ? 0 : null,
-            allConverted: true,
-            totalPerKg: null,
-            converted: 0,
-          };
-          drugs.set(key, agg);
-        }
-        agg.doseCount += 1;
-        agg.lastAtMs = t;
-        let perUnit = agg.byUnit.find((u) => u.unit === e.unit);
-        if (!perUnit) {
-          perUnit = { unit: e.unit, total: 0, doseCount: 0 };
-          agg.byUnit.push(perUnit);
-        }
-        perUnit.total = roundTotal(perUnit.total + e.dose);
-        perUnit.doseCount += 1;
+        // Counted here for the limits; the totals shown are aggregateDoses over the facts.
+        const so = (given.get(key) ?? { count: 0, converted: 0 });
+        given.set(key, so);
+        so.count += 1;
         const inUnit = def ? convertDose(e.dose, e.unit, def.unit) : null;
-        if (def) {
-          if (inUnit === null) agg.allConverted = false;
-          else agg.converted = roundTotal(agg.converted + inUnit);
-          agg.totalInCatalogueUnit = agg.converted;
-          agg.totalPerKg = weight === null ? null : roundTotal(agg.converted / weight);
-        }
+        if (inUnit !== null) so.converted = roundTotal(so.converted + inUnit);
         const flags: DoseFlag[] = [];
         const dosing = sheetDrugs.get(key);
         if (def && e.unit !== def.unit) flags.push('other-unit');
-        if (dosing?.countLimit != null && agg.doseCount > dosing.countLimit) flags.push('past-max-doses');
-        if (dosing?.maxTotal != null && def && agg.converted > dosing.maxTotal * (1 + ABOVE_DOSE_TOLERANCE)) flags.push('past-max-total');
-        const expected = expectedDoseFor(dosing, agg.doseCount);
+        if (dosing?.countLimit != null && so.count > dosing.countLimit) flags.push('past-max-doses');
+        if (dosing?.maxTotal != null && def && so.converted > dosing.maxTotal * (1 + ABOVE_DOSE_TOLERANCE)) flags.push('past-max-total');
+        const expected = expectedDoseFor(dosing, so.count);
         if (expected !== null && inUnit !== null && inUnit > expected * (1 + ABOVE_DOSE_TOLERANCE)) flags.push('above-dose');
         if (key === EPINEPHRINE_KEY) {
           if (lastEpinephrineMs !== null && t - lastEpinephrineMs < epiMinMs) flags.push('early');
@@ -473,10 +486,11 @@ export function foldLog(code: TimelineCode, entries: readonly LogEntry[], protoc
           dose: e.dose,
           unit: e.unit,
           route: e.route,
-          number: agg.doseCount,
+          catalogueUnit: def?.unit ?? null,
+          number: so.count,
           doseInCatalogueUnit: inUnit,
-          runningTotal: def ? agg.converted : null,
-          runningTotalPerKg: def && weight !== null ? roundTotal(agg.converted / weight) : null,
+          runningTotal: def ? so.converted : null,
+          runningTotalPerKg: def && weight !== null ? roundTotal(so.converted / weight) : null,
           expectedDose: expected,
           flags,
         });
@@ -522,7 +536,7 @@ export function foldLog(code: TimelineCode, entries: readonly LogEntry[], protoc
     rhythmChecks,
     shocks,
     doses,
-    drugs: [...drugs.values()].map(({ converted: _converted, ...agg }) => agg),
+    drugs: aggregateDoses(doses, weight),
     airway,
     access,
     etco2,
