@@ -109,7 +109,7 @@ async function recordPdf() {
   const signature = sign(null, Buffer.from(pdfStampText({ recordId: record.code.id, digest, generatedAt })), privateKey).toString('base64url');
   return renderPdf(
     buildRecordPdf({
-      record, digest, chain, status: 'draft', summary, settings: DEFAULT_PROTOCOL, signatures: [], people, timeZone: 'UTC', generatedAt, keyId,
+      record, digest, chain, integrity: { valid: true, problems: [] }, status: 'draft', summary, settings: DEFAULT_PROTOCOL, signatures: [], people, timeZone: 'UTC', generatedAt, keyId,
       stamp: formatPdfStamp({ recordId: record.code.id, digest, signature, generatedAt, keyId }),
     }),
   );
