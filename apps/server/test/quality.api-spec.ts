@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import type { NewEntry, QualityCodeDetail, QualityListResponse, QualityStats } from '@steadyhand/shared';
+import { csvRecords, type FollowUpListResponse, type NewEntry, type QualityCodeDetail, type QualityListResponse, type QualityStats } from '@steadyhand/shared';
 import { Fhir } from 'fhir';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeEntry } from './support/entries.js';
@@ -20,7 +20,7 @@ describe('quality review over REST', () => {
   const ids: Record<'march' | 'aprilAsystole' | 'aprilLate' | 'running', string> = { march: '', aprilAsystole: '', aprilLate: '', running: '' };
   let lateShockId = '';
 
-  const send = (who: SignedInAgent, method: 'post' | 'put', url: string, body: object) => who.agent[method](url).set('x-csrf-token', who.csrf).send(body);
+  const send = (who: SignedInAgent, method: 'post' | 'put' | 'patch', url: string, body: object) => who.agent[method](url).set('x-csrf-token', who.csrf).send(body);
 
   /** A code at a fixed past time, its entries at seconds after the arrest. */
   async function code(arrestAt: string, unitId: string, entries: [number, NoBase<NewEntry>][]): Promise<{ id: string; entryIds: string[] }> {
@@ -81,6 +81,8 @@ describe('quality review over REST', () => {
     ids.aprilLate = late.id;
     lateShockId = late.entryIds[2] as string;
     ids.running = (await code('2026-04-23T09:00:00.000Z', 'unit-4w', [[5, { kind: 'cpr', action: 'start' }]])).id;
+    // The shock target counts witnessed or monitored arrests: both VF codes were witnessed.
+    for (const id of [ids.march, ids.aprilLate]) await send(recorder, 'patch', `/api/codes/${id}/review`, { utstein: { witnessed: 'yes', witnessedBy: 'staff' } }).expect(200);
   }, 120_000);
   afterAll(() => app.close());
 
@@ -163,6 +165,69 @@ describe('quality review over REST', () => {
     expect(april.overall.codes).toBe(2);
   });
 
+  it('keeps the follow-up with dates and who entered it, lists codes still waiting by unit, and audits it', async () => {
+    const put = (who: SignedInAgent, id: string, body: object) => send(who, 'put', `/api/quality/codes/${id}/follow-up`, body);
+    const waiting = async (query = '') => (await reviewer.agent.get(`/api/quality/follow-up${query}`).expect(200)).body as FollowUpListResponse;
+    // Oldest arrest first, with how long since the arrest.
+    expect((await waiting()).items.map((i) => i.codeId)).toEqual([ids.march, ids.aprilAsystole, ids.aprilLate]);
+    expect((await waiting()).items[0]?.daysSinceArrest).toBe(Math.floor((Date.now() - Date.parse('2026-03-04T07:42:10.000Z')) / 86_400_000));
+    expect((await waiting('?unitId=unit-3b')).items.map((i) => i.codeId)).toEqual([ids.aprilAsystole]);
+
+    const saved = await put(reviewer, ids.march, { survivalToDischarge: 'yes', survivalToDischargeDate: '2026-03-19', neurologicalOutcome: 'cpc-2', neurologicalOutcomeDate: '2026-03-19' }).expect(200);
+    expect(saved.body.followUp).toMatchObject({
+      survivalToDischarge: { value: 'yes', date: '2026-03-19', enteredBy: { displayName: 'Test q.reviewer' } },
+      status30Days: null,
+      neurologicalOutcome: { value: 'cpc-2', date: '2026-03-19' },
+      complete: false,
+      missing: ['status at 30 days'],
+    });
+    expect((await waiting()).items.map((i) => i.codeId)).toContain(ids.march);
+    await put(admin, ids.march, { status30Days: 'alive', status30DaysDate: '2026-04-04' }).expect(200);
+    const detail = (await reviewer.agent.get(`/api/quality/codes/${ids.march}`).expect(200)).body as QualityCodeDetail;
+    expect(detail.followUp).toMatchObject({ complete: true, survivalToDischarge: { enteredBy: { displayName: 'Test q.reviewer' } }, status30Days: { value: 'alive', enteredBy: { displayName: 'Test q.admin' } } });
+    expect((await waiting()).items.map((i) => i.codeId)).toEqual([ids.aprilAsystole, ids.aprilLate]);
+
+    // Refusals name the field; a running code has no follow-up yet; nothing is stored.
+    expect((await put(reviewer, ids.aprilLate, { survivalToDischarge: 'no', neurologicalOutcome: 'cpc-1' }).expect(400)).body.message).toMatch(/neurologicalOutcome: the patient died in hospital/);
+    expect((await put(reviewer, ids.aprilLate, { neurologicalOutcome: 'cpc-9' }).expect(400)).body.message).toMatch(/neurologicalOutcome/);
+    expect((await put(reviewer, ids.aprilLate, { survivalToDischarge: 'yes', survivalToDischargeDate: '2026-04-01' }).expect(400)).body.message).toMatch(/survivalToDischargeDate: must not be before the arrest \(2026-04-22\)/);
+    await put(reviewer, ids.running, { survivalToDischarge: 'unknown' }).expect(409);
+    await put(recorder, ids.aprilLate, { survivalToDischarge: 'no' }).expect(403);
+    // Still open after the quality review was signed off (the 30-day status comes later).
+    await put(reviewer, ids.aprilAsystole, { survivalToDischarge: 'no', survivalToDischargeDate: '2026-04-10', status30Days: 'dead', status30DaysDate: '2026-04-10' }).expect(200);
+    await put(reviewer, ids.aprilLate, { survivalToDischarge: 'unknown' }).expect(200);
+
+    const audit = app.database.sqlite.prepare("SELECT detail FROM audit_events WHERE code_id = ? AND action = 'quality.follow-up-saved' ORDER BY id").all(ids.march) as { detail: string }[];
+    expect(audit.map((r) => JSON.parse(r.detail))).toEqual([
+      { survivalToDischarge: { from: null, to: 'yes' }, survivalToDischargeDate: { from: null, to: '2026-03-19' }, neurologicalOutcome: { from: null, to: 'cpc-2' }, neurologicalOutcomeDate: { from: null, to: '2026-03-19' }, complete: false },
+      { status30Days: { from: null, to: 'alive' }, status30DaysDate: { from: null, to: '2026-04-04' }, complete: true },
+    ]);
+
+    // The stats: ROSC and survival to discharge with Wilson intervals; survival over the known answers only.
+    const stats = (await reviewer.agent.get('/api/quality/stats').expect(200)).body as QualityStats;
+    expect(stats.overall.rosc).toMatchObject({ count: 1, known: 3 });
+    expect(stats.overall.survivalToDischarge).toMatchObject({ count: 1, known: 2, unknown: 1, rate: 0.5 });
+    expect(stats.overall.followUpComplete).toEqual({ complete: 2, codes: 3, share: 2 / 3 });
+    expect(stats.byUnit.map((u) => [u.label, u.survivalToDischarge.known])).toEqual([['4 West Medical', 1], ['Cardiac Step-Down 3B', 1]]);
+    expect(stats.rateMethod).toMatch(/Wilson/);
+  });
+
+  it('lets the reviewer complete registry details of an ended code, and applies the shock target only when witnessed or monitored is known', async () => {
+    await send(reviewer, 'patch', `/api/codes/${ids.running}/review`, { utstein: { witnessed: 'no' } }).expect(409);
+    await send(reviewer, 'patch', `/api/codes/${ids.aprilLate}/review`, { team: [] }).expect(403);
+    await send(reviewer, 'patch', `/api/codes/${ids.aprilLate}/review`, { utstein: { witnessed: 'no', witnessedBy: null, monitored: 'no' } }).expect(200);
+    const detail = (await reviewer.agent.get(`/api/quality/codes/${ids.aprilLate}`).expect(200)).body as QualityCodeDetail;
+    expect(detail.utstein).toEqual({ witnessed: 'no', monitored: 'no' });
+    const shock = detail.targets.find((t) => t.id === 'time-to-shock');
+    expect(shock).toMatchObject({ applies: false, met: null, value: 100 });
+    expect(shock?.note).toMatch(/neither witnessed nor monitored/);
+    // The stored metrics follow, so the shares by month do too.
+    const stats = (await reviewer.agent.get('/api/quality/stats').expect(200)).body as QualityStats;
+    expect(stats.overall.targets['time-to-shock']).toEqual({ applicable: 1, met: 1, share: 1 });
+    await send(reviewer, 'patch', `/api/codes/${ids.aprilLate}/review`, { utstein: { monitored: 'yes', monitoring: ['ecg', 'arterial-line'] } }).expect(200);
+    expect(((await reviewer.agent.get('/api/quality/stats').expect(200)).body as QualityStats).overall.targets['time-to-shock'].applicable).toBe(2);
+  });
+
   it('exports the Utstein CSV with exactly the documented columns, one row per code, and audits it', async () => {
     const documented = [...readFileSync(DOCS, 'utf8').matchAll(/^\| \d+ \| `([a-z_0-9]+)` \|/gm)].map((m) => m[1]);
     expect(documented.length).toBeGreaterThan(20);
@@ -172,14 +237,23 @@ describe('quality review over REST', () => {
     const lines = (res.text).trimEnd().split('\r\n');
     expect(lines[0]?.split(',')).toEqual(documented);
     expect(lines).toHaveLength(3);
-    const header = lines[0]!.split(',');
-    const march = lines.map((l) => l.split(',')).find((cells) => cells[0] === ids.march)!;
-    const cell = (name: string) => march[header.indexOf(name)];
-    expect(cell('unit')).toBe('4 West Medical');
-    expect(cell('arrest_to_first_defibrillation_s')).toBe('100');
-    expect(cell('arrest_to_first_vasopressor_s')).toBe('345');
-    expect(cell('first_documented_rhythm')).toBe('VF');
-    expect(cell('event_outcome')).toBe('sustained-rosc');
+    const rows = csvRecords(res.text);
+    expect(rows.find((r) => r.record_id === ids.march)).toMatchObject({
+      unit: '4 West Medical',
+      arrest_to_first_defibrillation_s: '100',
+      arrest_to_first_vasopressor_s: '345',
+      first_documented_rhythm: 'VF',
+      event_outcome: 'sustained-rosc',
+      witnessed: 'yes',
+      witnessed_by: 'staff',
+      monitored: '',
+      survival_to_discharge: 'yes',
+      survival_to_discharge_date: '2026-03-19',
+      status_30_days: 'alive',
+      neurological_outcome: 'cpc-2',
+      follow_up_complete: 'yes',
+    });
+    expect(rows.find((r) => r.record_id === ids.aprilLate)).toMatchObject({ witnessed: 'no', monitored: 'yes', monitoring: 'ecg;arterial-line', survival_to_discharge: 'unknown', neurological_outcome: '' });
     const audit = app.database.sqlite.prepare("SELECT detail FROM audit_events WHERE action = 'quality.export-utstein' ORDER BY id DESC").get() as { detail: string };
     expect(JSON.parse(audit.detail)).toMatchObject({ codes: 2, filter: { unitId: 'unit-4w' } });
   });

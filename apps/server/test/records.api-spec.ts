@@ -59,6 +59,7 @@ describe('the signed record', () => {
   let leader: SignedInAgent;
   let pharmacist: SignedInAgent;
   let otherRecorder: SignedInAgent;
+  let reviewer: SignedInAgent;
 
   beforeAll(async () => {
     app = await startTestApp();
@@ -68,10 +69,12 @@ describe('the signed record', () => {
     await users.create({ username: 'kofi.asante', displayName: 'Dr Kofi Asante', password: TEST_PASSWORD, roles: ['leader'] }, actor);
     await addUser(app, 'pharm.one', ['pharmacist']);
     await addUser(app, 'rec.two', ['recorder']);
+    await addUser(app, 'rev.one', ['reviewer']);
     recorder = await signIn(app, 'maren.holt');
     leader = await signIn(app, 'kofi.asante');
     pharmacist = await signIn(app, 'pharm.one');
     otherRecorder = await signIn(app, 'rec.two');
+    reviewer = await signIn(app, 'rev.one');
     app.database.sqlite
       .prepare("INSERT INTO settings (key, value, updated_at) VALUES ('facility', ?, ?) ON CONFLICT(key) DO UPDATE SET value = excluded.value")
       .run(JSON.stringify({ name: 'Harbourview General Hospital', timeZone: 'UTC' }), new Date().toISOString());
@@ -139,6 +142,57 @@ describe('the signed record', () => {
     expect(log.body.entries.at(-1)).toMatchObject({ kind: 'amend', changes: { outcome: 'sustained-rosc' }, reason: 'Outcome confirmed at review' });
     await recorder.agent.patch(`/api/codes/${id}/review`).set('x-csrf-token', recorder.csrf).send({ team: [{ name: '', role: 'x' }] }).expect(400);
     await pharmacist.agent.patch(`/api/codes/${id}/review`).set('x-csrf-token', pharmacist.csrf).send({ debriefNotes: 'no' }).expect(403);
+  });
+
+  it('keeps the registry details with the record: signed as completed, later changes as addenda, closed by the quality sign-off', async () => {
+    const id = await demoCode();
+    const patch = (who: SignedInAgent, body: object) => who.agent.patch(`/api/codes/${id}/review`).set('x-csrf-token', who.csrf).send(body);
+    const first = await patch(recorder, { utstein: { witnessed: 'yes', witnessedBy: 'staff', monitored: 'no', teamArrivedAt: '2026-03-04T08:43:00+01:00' } }).expect(200);
+    expect(first.body.code.utstein).toEqual({ witnessed: 'yes', witnessedBy: 'staff', monitored: 'no', teamArrivedAt: '2026-03-04T08:43:00+01:00' });
+    // Each bad detail is a 400 naming the field; nothing is stored.
+    expect((await patch(recorder, { utstein: { witnessed: 'maybe' } }).expect(400)).body.message).toMatch(/utstein\.witnessed/);
+    expect((await patch(recorder, { utstein: { witnessed: 'no' } }).expect(400)).body.message).toMatch(/utstein\.witnessedBy: is entered only for a witnessed arrest/);
+    expect((await patch(recorder, { utstein: { deathPronouncedAt: clock('07:40:00') } }).expect(400)).body.message).toMatch(/utstein\.deathPronouncedAt: must be after the arrest/);
+    // A reviewer completes the registry details only.
+    expect((await patch(reviewer, { debriefNotes: 'from the committee' }).expect(403)).body.message).toMatch(/registry details \(utstein\)/);
+    await patch(reviewer, { utstein: { monitored: 'unknown' } }).expect(200);
+    await patch(pharmacist, { utstein: { monitored: 'yes' } }).expect(403);
+
+    await sign(recorder, id, 'recorded-by').expect(201);
+    await patch(recorder, { debriefNotes: 'too late' }).expect(409);
+    const later = await patch(reviewer, { utstein: { monitored: 'yes', monitoring: ['ecg'] } }).expect(200);
+    expect(later.body.utstein).toMatchObject({ witnessed: 'yes', monitored: 'yes', monitoring: ['ecg'] });
+    await sign(leader, id, 'reviewed-confirmed').expect(201);
+    await patch(leader, { utstein: { cause: 'hypoxia' } }).expect(200);
+
+    const view = (await recorder.agent.get(`/api/codes/${id}/record`).expect(200)).body;
+    // The signed details stay as signed; each later change is an addendum with its old and new value.
+    expect(view.record.code.utstein).toMatchObject({ monitored: 'unknown' });
+    expect(view.record.detailAddenda.map((a: { changes: object; userName: string }) => [a.userName, a.changes])).toEqual([
+      ['Test rev.one', { monitored: { from: 'unknown', to: 'yes' }, monitoring: { from: null, to: ['ecg'] } }],
+      ['Dr Kofi Asante', { cause: { from: null, to: 'hypoxia' } }],
+    ]);
+    expect(view.signatures.map((x: { valid: boolean }) => x.valid)).toEqual([true, true]);
+    expect(view.integrity).toEqual({ valid: true, problems: [] });
+    expect(view.digest).toBe(createHash('sha256').update(canonicalize(view.record)!, 'utf8').digest('hex'));
+    const audit = app.database.sqlite.prepare("SELECT detail FROM audit_events WHERE code_id = ? AND action = 'code.review-changed' ORDER BY id").all(id) as { detail: string }[];
+    expect(audit.map((r) => JSON.parse(r.detail))).toEqual([
+      { utstein: { witnessed: { from: null, to: 'yes' }, witnessedBy: { from: null, to: 'staff' }, monitored: { from: null, to: 'no' }, teamArrivedAt: { from: null, to: '2026-03-04T08:43:00+01:00' } } },
+      { utstein: { monitored: { from: 'no', to: 'unknown' } } },
+      { utstein: { monitored: { from: 'unknown', to: 'yes' }, monitoring: { from: null, to: ['ecg'] } }, addendum: true },
+      { utstein: { cause: { from: null, to: 'hypoxia' } }, addendum: true },
+    ]);
+    const printed = pdfText(await pdf(recorder, id)).replace(/\s+/g, ' ');
+    expect(printed).toContain('Registry details');
+    expect(printed).toContain('Witnessed Yes');
+    expect(printed).toContain('Team arrived 4 March 2026, 07:43:00');
+    expect(printed).toContain('Monitored: Yes (was: Unknown). Test rev.one');
+
+    // The quality review's sign-off closes them, for everyone.
+    await reviewer.agent.post(`/api/quality/codes/${id}/review/sign`).set('x-csrf-token', reviewer.csrf).send({ password: TEST_PASSWORD }).expect(200);
+    expect((await patch(reviewer, { utstein: { ecpr: 'no' } }).expect(409)).body.message).toMatch(/quality review of this code was signed off/);
+    await patch(recorder, { utstein: { ecpr: 'no' } }).expect(409);
+    expect((await recorder.agent.get(`/api/codes/${id}/record`).expect(200)).body.qualityReviewedAt).not.toBeNull();
   });
 
   it('refuses a signature with a wrong password, and stores none', async () => {

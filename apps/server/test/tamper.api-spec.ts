@@ -257,6 +257,24 @@ describe('tampering with a record', () => {
       await expectDetected(made.id, /the seal holds 6 entries .* the log has 5/);
     });
 
+    it('24. the registry details signed with the record changed', async () => {
+      const made = await signed();
+      sqlite.prepare('UPDATE codes SET utstein = ? WHERE id = ?').run(JSON.stringify({ witnessed: 'yes' }), made.id);
+      await expectDetected(made.id, /does not verify/);
+    });
+
+    it('25. a registry-details addendum deleted', async () => {
+      const made = await signed();
+      await recorder.agent.patch(`/api/codes/${made.id}/review`).set('x-csrf-token', recorder.csrf).send({ utstein: { monitored: 'yes' } }).expect(200);
+      expect((await viewOf(made.id)).integrity.valid).toBe(true);
+      withoutTriggers(sqlite, ['utstein_addenda_refuse_delete'], () => {
+        sqlite.prepare('DELETE FROM utstein_addenda WHERE code_id = ?').run(made.id);
+      });
+      // Both signatures still verify (the addendum came after them): only the seal tells.
+      expect((await viewOf(made.id)).signatures.every((x) => x.valid)).toBe(true);
+      await expectDetected(made.id, /registry details after signing are not the ones the server sealed/);
+    });
+
     it('19. a plain entry inserted after signing, linked as the server would', async () => {
       const made = await signed();
       const last = made.entries.at(-1)!;
@@ -284,7 +302,7 @@ describe('tampering with a record', () => {
       await expectDetected(made.id, /entry chain is broken/);
     });
 
-    it('24. a signature said to be made by a key the server does not hold', async () => {
+    it('26. a signature said to be made by a key the server does not hold', async () => {
       const made = await signed();
       withoutTriggers(sqlite, ['signatures_refuse_update'], () => {
         sqlite.prepare("UPDATE signatures SET key_id = '0123456789abcdef' WHERE code_id = ? AND meaning = 'recorded-by'").run(made.id);

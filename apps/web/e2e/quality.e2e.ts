@@ -48,6 +48,7 @@ async function session(baseUrl: string, username: string) {
   return {
     get: (path: string) => call('GET', path),
     post: (path: string, body: unknown) => call('POST', path, body),
+    patch: (path: string, body: unknown) => call('PATCH', path, body),
   };
 }
 
@@ -104,6 +105,10 @@ describe('quality review, in Chromium', () => {
       [410, { kind: 'drug', drug: 'epinephrine', dose: 1, unit: 'mg', route: 'io' }],
       [1500, { kind: 'end', outcome: 'died' }],
     ]);
+    // The shock target counts witnessed or monitored arrests: this one was both.
+    await recorder.patch(`/api/codes/${shockCode}/review`, {
+      utstein: { witnessed: 'yes', witnessedBy: 'staff', monitored: 'yes', monitoring: ['ecg'] },
+    });
     await recorder.post(`/api/codes/${shockCode}/signatures`, {
       meaning: 'recorded-by',
       password: DEMO_PASSWORD,
@@ -213,6 +218,9 @@ describe('quality review, in Chromium', () => {
     await page.goto('/quality/stats');
     await page.getByTestId('quality-chart-targets-month').waitFor();
     expect(await page.getByTestId('quality-table-targets-month').innerText()).toContain('2026-03');
+    // ROSC and survival rates with their Wilson intervals, said so on the page.
+    expect(await page.getByTestId('quality-table-rates-month').innerText()).toContain('2026-03');
+    expect(await page.getByTestId('quality-rate-method-rates-month').innerText()).toContain('Wilson score interval');
     expect(await page.locator('.recharts-surface').count()).toBeGreaterThanOrEqual(4);
     await screenshot(page, 'quality-stats');
     await context.close();

@@ -2,6 +2,7 @@ import { execFileSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
 import { readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
+import { csvRecords } from '@steadyhand/shared';
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import {
@@ -82,6 +83,17 @@ describe('after the code: review, correct, attach, sign twice, print and verify,
       .fill('Shock delivered within two minutes. Amiodarone drawn up early.');
     await details.getByTestId('details-save').click();
     await details.getByText('Saved.').waitFor();
+
+    // The registry details: witnessed by staff, monitored on ECG (the demo entered where and when the team came).
+    const registry = page.getByTestId('utstein-details');
+    expect(await registry.getByTestId('utstein-arrestLocation').inputValue()).toBe('ward');
+    await registry.getByTestId('utstein-witnessed').selectOption('yes');
+    await registry.getByTestId('utstein-witnessedBy').selectOption('staff');
+    await registry.getByTestId('utstein-monitored').selectOption('yes');
+    await registry.getByTestId('utstein-monitoring-ecg').click();
+    await registry.getByTestId('utstein-stopReason').selectOption('rosc');
+    await registry.getByTestId('utstein-save').click();
+    await registry.getByText('Saved.').waitFor();
 
     // Attach a monitor strip (an image): listed with its SHA-256 and shown as a preview.
     const strip = await page.screenshot({ clip: { x: 0, y: 0, width: 320, height: 120 } });
@@ -215,5 +227,49 @@ describe('after the code: review, correct, attach, sign twice, print and verify,
     expect(await mail.first().innerText()).toContain('pharmacy@harbourview.example');
     await screenshot(admin, 'admin-outbox');
     await adminContext.close();
-  }, 240_000);
+
+    // The reviewer finds the code waiting for its follow-up, enters it, and the registry CSV carries it all.
+    const reviewerContext = await newContext(run.browser, baseUrl, { width: 1440, height: 900 });
+    const reviewer = await reviewerContext.newPage();
+    await signInAs(reviewer, 'ewan.trelawny');
+    await reviewer.goto('/quality/follow-up');
+    const waitingRow = reviewer.locator(`[data-testid="follow-up-row"][data-code-id="${codeId}"]`);
+    await waitingRow.waitFor();
+    expect(await waitingRow.innerText()).toContain('survival to discharge');
+    await waitingRow.getByRole('link').click();
+    const followUp = reviewer.getByTestId('follow-up');
+    await followUp.waitFor();
+    expect(await reviewer.getByTestId('quality-target-time-to-shock').getAttribute('data-state')).toBe('met');
+    const today = new Date().toISOString().slice(0, 10);
+    await followUp.getByTestId('follow-up-survivalToDischarge').selectOption('yes');
+    await followUp.getByTestId('follow-up-survivalToDischarge-date').fill(today);
+    await followUp.getByTestId('follow-up-neurologicalOutcome').selectOption('cpc-1');
+    await followUp.getByTestId('follow-up-neurologicalOutcome-date').fill(today);
+    await followUp.getByTestId('follow-up-save').click();
+    await expect
+      .poll(() => followUp.getByTestId('follow-up-status').innerText())
+      .toBe('Waiting for: status at 30 days.');
+    expect(await followUp.innerText()).toContain('Entered by Ewan Trelawny, RN');
+    await screenshot(reviewer, 'quality-follow-up');
+
+    await reviewer.goto('/quality');
+    const [csvDownload] = await Promise.all([
+      reviewer.waitForEvent('download'),
+      reviewer.getByTestId('quality-export-csv').click(),
+    ]);
+    const exported = csvRecords(readFileSync(await csvDownload.path(), 'utf8')).find(
+      (r) => r.record_id === codeId,
+    );
+    expect(exported).toMatchObject({
+      witnessed: 'yes',
+      witnessed_by: 'staff',
+      monitored: 'yes',
+      monitoring: 'ecg',
+      survival_to_discharge: 'yes',
+      survival_to_discharge_date: today,
+      neurological_outcome: 'cpc-1',
+      status_30_days: '',
+    });
+    await reviewerContext.close();
+  }, 300_000);
 });

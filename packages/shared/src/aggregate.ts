@@ -79,3 +79,45 @@ export function histogram(values: readonly (number | null)[], edges: readonly nu
 
 /** Compression-fraction bins the stats page shows: under 60% (below the AHA minimum), then by 10 points. */
 export const COMPRESSION_FRACTION_EDGES = [0, 0.6, 0.7, 0.8, 0.9, 1] as const;
+
+/** z for a two-sided 95% interval (the 0.975 quantile of the standard normal). */
+export const Z_95 = 1.959963984540054;
+
+/**
+ * Wilson score interval for a binomial proportion, without continuity correction (Wilson EB,
+ * JASA 1927;22:209-212; method 3 in Newcombe RG, Stat Med 1998;17:857-872):
+ * (p + z²/2n ± z·√(p(1-p)/n + z²/4n²)) / (1 + z²/n). Stays within 0 to 1 and is not zero-width
+ * at 0/n or n/n, unlike the plain normal (Wald) interval. Null when n is 0.
+ */
+export function wilsonInterval(successes: number, n: number, z = Z_95): { low: number; high: number } | null {
+  if (n <= 0) return null;
+  const p = successes / n;
+  const z2 = z * z;
+  const denominator = 1 + z2 / n;
+  const centre = (p + z2 / (2 * n)) / denominator;
+  const half = (z / denominator) * Math.sqrt((p * (1 - p)) / n + z2 / (4 * n * n));
+  return { low: Math.max(0, centre - half), high: Math.min(1, centre + half) };
+}
+
+/** A rate with its 95% Wilson interval: `count` of `known` (codes whose answer is known). */
+export interface RateWithInterval {
+  count: number;
+  /** The denominator: codes whose answer is known (yes or no). */
+  known: number;
+  /** Codes in the group whose answer is not known yet (left out of the denominator). */
+  unknown: number;
+  rate: number | null;
+  low: number | null;
+  high: number | null;
+}
+
+/** The rate of `true` among the values that are not null, with its Wilson interval. */
+export function rateWithInterval(values: readonly (boolean | null)[]): RateWithInterval {
+  const known = values.filter((v) => v !== null).length;
+  const count = values.filter((v) => v === true).length;
+  const ci = wilsonInterval(count, known);
+  return { count, known, unknown: values.length - known, rate: known === 0 ? null : count / known, low: ci?.low ?? null, high: ci?.high ?? null };
+}
+
+export const RATE_METHOD =
+  '95% confidence intervals are Wilson score intervals (Wilson 1927; Newcombe 1998, method 3), which stay sensible for small groups and for rates near 0% or 100%.';

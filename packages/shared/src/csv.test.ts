@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { csvCell } from './csv.js';
+import { csvCell, csvRecords, parseCsv } from './csv.js';
 
 describe('one CSV cell for every export', () => {
   // OWASP, "CSV Injection" (owasp.org/www-community/attacks/CSV_Injection): the payloads it lists
@@ -47,5 +47,14 @@ describe('one CSV cell for every export', () => {
     expect(csvCell(undefined)).toBe('');
     expect(csvCell({ reason: 'x' })).toBe('"{""reason"":""x""}"');
     expect(csvCell('a=b')).toBe('a=b');
+  });
+});
+
+describe('reading a CSV back', () => {
+  it('undoes the quoting of every cell, commas, quotes and line breaks included', () => {
+    const cells = ['Bed 12, "window"', 'two\r\nlines', '', '-12', '=1+1'];
+    const text = `a,b,c,d,e\r\n${cells.map(csvCell).join(',')}\r\n`;
+    expect(csvRecords(text)).toEqual([{ a: 'Bed 12, "window"', b: 'two\r\nlines', c: '', d: '-12', e: "'=1+1" }]);
+    expect(parseCsv('x,y\r\n1,2')).toEqual([['x', 'y'], ['1', '2']]);
   });
 });

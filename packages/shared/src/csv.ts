@@ -19,3 +19,42 @@ export function csvCell(value: unknown): string {
   if (FORMULA_START.test(text) && !PLAIN_NUMBER.test(text)) text = `'${text}`;
   return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
+
+/**
+ * Reads an RFC 4180 file (as `csvCell` writes it) into rows of cells, header first. For the
+ * receiving side and the tests: quotes are undone, the formula guard's apostrophe is kept.
+ */
+export function parseCsv(text: string): string[][] {
+  const rows: string[][] = [];
+  let row: string[] = [];
+  let cell = '';
+  let quoted = false;
+  for (let i = 0; i < text.length; i++) {
+    const c = text[i];
+    if (quoted) {
+      if (c === '"' && text[i + 1] === '"') {
+        cell += '"';
+        i++;
+      } else if (c === '"') quoted = false;
+      else cell += c;
+    } else if (c === '"') quoted = true;
+    else if (c === ',') {
+      row.push(cell);
+      cell = '';
+    } else if (c === '\r' && text[i + 1] === '\n') {
+      row.push(cell);
+      rows.push(row);
+      row = [];
+      cell = '';
+      i++;
+    } else cell += c;
+  }
+  if (cell !== '' || row.length > 0) rows.push([...row, cell]);
+  return rows;
+}
+
+/** The rows of a parsed file as objects by column name. */
+export function csvRecords(text: string): Record<string, string>[] {
+  const [header = [], ...rows] = parseCsv(text);
+  return rows.map((r) => Object.fromEntries(header.map((name, i) => [name, r[i] ?? ''])));
+}

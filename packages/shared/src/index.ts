@@ -14,6 +14,7 @@ export * from './state-words.js';
 export * from './weight-estimate.js';
 export * from './clock.js';
 export * from './admin.js';
+export * from './utstein.js';
 export * from './records.js';
 export * from './quality.js';
 export * from './reconciliation.js';

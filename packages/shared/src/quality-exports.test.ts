@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { histogram, quantileSummary, shareOf, COMPRESSION_FRACTION_EDGES } from './aggregate.js';
+import { histogram, quantileSummary, rateWithInterval, shareOf, wilsonInterval, COMPRESSION_FRACTION_EDGES } from './aggregate.js';
 import type { LogEntry } from './effective-log.js';
 import { buildFhirBundle } from './fhir-bundle.js';
 import { DEFAULT_PROTOCOL } from './protocol.js';
@@ -7,6 +7,7 @@ import { aggregateQuality, type QualityMetricsRow } from './quality.js';
 import { summarize } from './summary.js';
 import { foldLog } from './timeline.js';
 import { UTSTEIN_CSV_COLUMNS, utsteinCsv, utsteinRow } from './utstein-csv.js';
+import type { FollowUp, UtsteinDetails } from './utstein.js';
 
 let nextId = 1;
 const uuid = () => `00000000-0000-4000-8000-${(nextId++).toString().padStart(12, '0')}`;
@@ -36,7 +37,8 @@ describe('medians and interquartile ranges', () => {
   it('groups by month and unit, with target shares', () => {
     const row = (arrestAt: string, unitId: string | null, over: Partial<QualityMetricsRow>): QualityMetricsRow => ({
       arrestAt, unitId, unitName: unitId ? `Unit ${unitId}` : null, durationSeconds: 600, toCompressionsSeconds: 10,
-      firstRhythm: 'vf', anyRosc: false, toFirstShockSeconds: 100, toFirstEpinephrineSeconds: null, compressionFraction: 0.85, maxPreShockPauseSeconds: 5, ...over,
+      firstRhythm: 'vf', witnessedOrMonitored: true, anyRosc: false, toFirstShockSeconds: 100, toFirstEpinephrineSeconds: null, compressionFraction: 0.85, maxPreShockPauseSeconds: 5,
+      survivalToDischarge: null, followUpComplete: false, ...over,
     });
     const stats = aggregateQuality([
       row('2026-03-01T10:00:00.000Z', 'a', {}),
@@ -48,6 +50,46 @@ describe('medians and interquartile ranges', () => {
     expect(stats.byMonth[0]?.intervals.toFirstShockSeconds.median).toBe(150);
     expect(stats.byUnit.map((u) => [u.label, u.codes])).toEqual([['Unit a', 2], ['Unit b', 1]]);
     expect(stats.overall.targets['time-to-epinephrine']).toEqual({ applicable: 1, met: 1, share: 1 });
+  });
+
+  it('gives ROSC and survival rates with Wilson intervals, survival over the codes whose answer is known', () => {
+    const row = (unitId: string, anyRosc: boolean, survival: QualityMetricsRow['survivalToDischarge'], complete: boolean): QualityMetricsRow => ({
+      arrestAt: '2026-03-01T10:00:00.000Z', unitId, unitName: `Unit ${unitId}`, durationSeconds: 600, toCompressionsSeconds: 10, firstRhythm: 'pea',
+      witnessedOrMonitored: null, anyRosc, toFirstShockSeconds: null, toFirstEpinephrineSeconds: 120, compressionFraction: 0.9, maxPreShockPauseSeconds: null,
+      survivalToDischarge: survival, followUpComplete: complete,
+    });
+    const stats = aggregateQuality([row('a', true, 'yes', true), row('a', true, 'no', true), row('a', false, 'unknown', false), row('b', false, null, false)]);
+    const a = stats.byUnit[0]!;
+    expect(a.rosc).toMatchObject({ count: 2, known: 3, unknown: 0, rate: 2 / 3 });
+    expect(a.survivalToDischarge).toMatchObject({ count: 1, known: 2, unknown: 1, rate: 0.5 });
+    // Wilson for 1/2 (arithmetic on the formula in aggregate.ts): 0.0945 to 0.9055.
+    expect(a.survivalToDischarge.low).toBeCloseTo(0.0945, 4);
+    expect(a.survivalToDischarge.high).toBeCloseTo(0.9055, 4);
+    expect(a.followUpComplete).toEqual({ complete: 2, codes: 3, share: 2 / 3 });
+    expect(stats.byUnit[1]?.survivalToDischarge).toMatchObject({ known: 0, rate: null, low: null, high: null });
+    expect(stats.rateMethod).toMatch(/Wilson/);
+  });
+});
+
+describe('Wilson score interval', () => {
+  it('matches the worked examples of Newcombe 1998, Table I, method 3 (Stat Med 17:857-872; values from memory, reproduced here to 4 decimals)', () => {
+    const at4 = (x: number, n: number) => {
+      const ci = wilsonInterval(x, n)!;
+      return [Number(ci.low.toFixed(4)), Number(ci.high.toFixed(4))];
+    };
+    expect(at4(81, 263)).toEqual([0.2553, 0.3662]);
+    expect(at4(15, 148)).toEqual([0.0624, 0.1605]);
+    expect(at4(0, 20)).toEqual([0, 0.1611]);
+    expect(at4(1, 29)).toEqual([0.0061, 0.1718]);
+  });
+
+  it('stays inside 0 to 1, is never zero-width at n/n, and is null for no codes', () => {
+    const all = wilsonInterval(5, 5)!;
+    expect(all.high).toBe(1);
+    expect(all.low).toBeGreaterThan(0.5);
+    expect(all.low).toBeLessThan(1);
+    expect(wilsonInterval(0, 0)).toBeNull();
+    expect(rateWithInterval([null, null])).toMatchObject({ known: 0, unknown: 2, rate: null });
   });
 });
 
@@ -72,10 +114,40 @@ function sampleRecord() {
   return { code, timeline, summary: summarize(timeline) };
 }
 
+const DETAILS: UtsteinDetails = {
+  witnessed: 'yes',
+  witnessedBy: 'staff',
+  monitored: 'yes',
+  monitoring: ['ecg', 'pulse-oximetry'],
+  arrestLocation: 'ward',
+  teamArrivedAt: '2026-03-04T08:43:40+01:00',
+  cause: 'other',
+  causeNote: '=HYPERLINK("x")',
+  specialCircumstances: ['unknown'],
+  mechanicalCpr: 'no',
+  ecpr: 'unknown',
+  stopReason: 'rosc',
+  temperatureControl: 'yes',
+  twelveLeadEcg: 'st-elevation',
+  handoverSystolicMmHg: 96,
+  handoverDiastolicMmHg: 58,
+  handoverSpo2Percent: 95,
+  handoverGlucose: { value: 8.2, unit: 'mmol/L' },
+  destination: 'cath-lab',
+};
+const by = { id: 'u1', displayName: 'Ewan Trelawny, RN' };
+const FOLLOW_UP: FollowUp = {
+  survivalToDischarge: { value: 'yes', date: '2026-03-20', enteredBy: by, enteredAt: '2026-03-21T09:00:00.000Z' },
+  status30Days: { value: 'unknown', date: null, enteredBy: by, enteredAt: '2026-03-21T09:00:00.000Z' },
+  neurologicalOutcome: { value: 'cpc-1', date: '2026-03-20', enteredBy: by, enteredAt: '2026-03-21T09:00:00.000Z' },
+  complete: false,
+  missing: ['status at 30 days'],
+};
+
 describe('Utstein CSV', () => {
-  it('writes the documented columns in order, one row per code', () => {
+  it('writes the documented columns in order, one row per code, details and follow-up in their API words', () => {
     const { code, summary } = sampleRecord();
-    const row = utsteinRow({ code, summary, unitName: '4 West Medical', facility: 'Harbourview General Hospital' });
+    const row = utsteinRow({ code, summary, unitName: '4 West Medical', facility: 'Harbourview General Hospital', utstein: DETAILS, followUp: FOLLOW_UP });
     const csv = utsteinCsv([row, row]);
     const lines = csv.trimEnd().split('\r\n');
     expect(lines).toHaveLength(3);
@@ -91,8 +163,39 @@ describe('Utstein CSV', () => {
       any_rosc: 'yes',
       event_outcome: 'sustained-rosc',
       patient_sex: 'unknown',
+      witnessed: 'yes',
+      witnessed_by: 'staff',
+      monitored: 'yes',
+      monitoring: 'ecg;pulse-oximetry',
+      arrest_location: 'ward',
+      // Entered with an offset, written in UTC; 07:43:40 is 90 s after the 07:42:10 arrest.
+      team_arrived_at: '2026-03-04T07:43:40.000Z',
+      arrest_to_team_arrival_s: '90',
+      pads_on_at: '',
+      cause: 'other',
+      special_circumstances: 'unknown',
+      treatment_limitation_before_event: '',
+      mechanical_cpr: 'no',
+      ecpr: 'unknown',
+      handover_glucose: '8.2',
+      handover_glucose_unit: 'mmol/L',
+      survival_to_discharge: 'yes',
+      survival_to_discharge_date: '2026-03-20',
+      status_30_days: 'unknown',
+      status_30_days_date: '',
+      neurological_outcome: 'cpc-1',
+      follow_up_complete: 'no',
     });
     expect(lines[1]).toContain('"Bed 12, ""window"""');
+    // Free text goes through the one CSV cell function: a formula is defused.
+    expect(lines[1]).toContain(`"'=HYPERLINK(""x"")"`);
+  });
+
+  it('leaves every detail and follow-up cell empty when nothing was entered', () => {
+    const { code, summary } = sampleRecord();
+    const row = utsteinRow({ code, summary, unitName: null, facility: 'Harbourview General Hospital', utstein: {}, followUp: null });
+    for (const name of ['witnessed', 'monitored', 'monitoring', 'cause', 'survival_to_discharge', 'neurological_outcome', 'handover_glucose'] as const) expect(row[name]).toBe('');
+    expect(row.follow_up_complete).toBe('no');
   });
 });
 
@@ -102,6 +205,7 @@ describe('FHIR document bundle', () => {
     let n = 0;
     const bundle = buildFhirBundle({
       code, timeline, summary, facility: 'Harbourview General Hospital', unitName: '4 West Medical',
+      utstein: DETAILS, followUp: FOLLOW_UP,
       signatures: [{ printedName: 'Maren Holt, RN', meaning: 'recorded-by', signedAt: t(1600), serverSignature: 'ab-_' }],
       generatedAt: t(1700),
       newId: () => `10000000-0000-4000-8000-${String(++n).padStart(12, '0')}`,
@@ -112,9 +216,24 @@ describe('FHIR document bundle', () => {
     expect(resources[0]?.status).toBe('preliminary'); // one signature of two
     const of = (type: string) => resources.filter((r) => r.resourceType === type);
     expect(JSON.stringify(of('Condition'))).toContain('410429000');
-    expect(of('Procedure')).toHaveLength(2); // CPR and one shock
+    // CPR, one shock, the tube, the IO; mechanical CPR not done and temperature control done (ECPR unknown: absent).
+    expect(of('Procedure')).toHaveLength(6);
     expect(JSON.stringify(of('Procedure'))).toContain('89666000');
     expect(JSON.stringify(of('Procedure'))).toContain('426220008');
+    expect(JSON.stringify(of('Procedure'))).toContain('"code":"232674004"'); // endotracheal, sheet §5b (secondary)
+    expect(JSON.stringify(of('Procedure'))).toContain('"code":"430824005"'); // IO, sheet §5b (secondary)
+    expect(JSON.stringify(of('Procedure'))).toContain('"status":"not-done","code":{"text":"Mechanical chest compressions"}');
+    expect(JSON.stringify(of('Procedure'))).not.toContain('ECPR');
+    const texts = of('Observation').map((o) => (o.code as { text?: string }).text);
+    expect(texts).toContain('Return of spontaneous circulation (ROSC)');
+    expect(texts).toContain('Survival to hospital discharge');
+    expect(texts).toContain('Neurological outcome at hospital discharge');
+    // An answer entered as unknown stays absent, never guessed.
+    expect(texts).not.toContain('Status 30 days after the arrest');
+    expect(texts).not.toContain('Special circumstances');
+    const survival = of('Observation').find((o) => (o.code as { text?: string }).text === 'Survival to hospital discharge')!;
+    expect(survival).toMatchObject({ effectiveDateTime: '2026-03-20', issued: '2026-03-21T09:00:00.000Z', performer: [{ display: 'Ewan Trelawny, RN' }] });
+    expect(JSON.stringify(of('Observation'))).toContain('"code":"mmol/L"');
     const meds = of('MedicationAdministration') as unknown as { medicationCodeableConcept: { coding?: { code: string }[] }; dosage: { dose: { code: string; system: string } } }[];
     expect(meds.map((m) => m.medicationCodeableConcept.coding?.[0]?.code)).toEqual(['3992', '703', '36676']);
     expect(meds.map((m) => m.dosage.dose.code)).toEqual(['mg', 'mg', 'meq']);

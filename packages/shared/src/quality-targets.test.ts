@@ -3,6 +3,7 @@ import type { LogEntry } from './effective-log.js';
 import { DEFAULT_PROTOCOL } from './protocol.js';
 import { evaluateTargets, missedTargets, type TargetResult } from './quality-targets.js';
 import { summarizeLog } from './summary.js';
+import type { UtsteinDetails } from './utstein.js';
 
 // Worked cases for the committee's targets. Sources: shared/reference/clinical-reference.md §3 and §6.
 
@@ -13,13 +14,13 @@ const t = (s: number) => new Date(Date.parse(ARREST) + s * 1000).toISOString();
 type NoBase<T> = T extends unknown ? Omit<T, 'id' | 'at'> : never;
 const e = (s: number, fields: NoBase<LogEntry>): LogEntry => ({ id: uuid(), at: t(s), ...fields });
 
-function targetsOf(entries: LogEntry[], endS: number): Record<string, TargetResult> {
+function targetsOf(entries: LogEntry[], endS: number, details: UtsteinDetails = { witnessed: 'yes' }): Record<string, TargetResult> {
   const summary = summarizeLog(
     { arrestAt: ARREST, endedAt: t(endS), category: 'adult', weightKg: null },
     [...entries, e(endS, { kind: 'end', outcome: 'died' })],
     DEFAULT_PROTOCOL,
   );
-  return Object.fromEntries(evaluateTargets(summary).map((r) => [r.id, r]));
+  return Object.fromEntries(evaluateTargets(summary, details).map((r) => [r.id, r]));
 }
 
 describe('quality targets on worked cases', () => {
@@ -57,6 +58,20 @@ describe('quality targets on worked cases', () => {
     expect(rosc['time-to-shock']).toMatchObject({ applies: false, met: null, note: 'ROSC was reached without a shock.' });
   });
 
+  it('judges time to shock only for a witnessed or monitored arrest, and says why not otherwise (the committee\'s rule)', () => {
+    const vf = [e(60, { kind: 'rhythm', rhythm: 'vf', pulse: false }), e(100, { kind: 'shock', joules: 200, synchronized: false })];
+    expect(targetsOf(vf, 400, { witnessed: 'no', monitored: 'yes' })['time-to-shock']).toMatchObject({ applies: true, met: true });
+    const neither = targetsOf(vf, 400, { witnessed: 'no', monitored: 'no' })['time-to-shock'];
+    expect(neither).toMatchObject({ applies: false, met: null, value: 100 });
+    expect(neither?.note).toMatch(/neither witnessed nor monitored/);
+    const notKnown = targetsOf(vf, 400, { witnessed: 'no', monitored: 'unknown' })['time-to-shock'];
+    expect(notKnown).toMatchObject({ applies: false, met: null });
+    expect(notKnown?.note).toMatch(/not recorded yet/);
+    expect(targetsOf(vf, 400, {})['time-to-shock']?.applies).toBe(false);
+    // A shockable rhythm never shocked is not counted as missed while it is not known to apply.
+    expect(missedTargets(Object.values(targetsOf([e(60, { kind: 'rhythm', rhythm: 'vf', pulse: false })], 400, {})))).not.toContain('time-to-shock');
+  });
+
   it('says why the epinephrine target does or does not apply (same rule as the shock target, for PEA and asystole)', () => {
     const none = targetsOf([e(60, { kind: 'rhythm', rhythm: 'asystole', pulse: false })], 900);
     expect(none['time-to-epinephrine']).toMatchObject({ applies: true, met: false, value: null, note: 'No epinephrine was recorded.' });
@@ -70,6 +85,8 @@ describe('quality targets on worked cases', () => {
     const early = targetsOf([e(30, { kind: 'rhythm', rhythm: 'asystole', pulse: false }), e(180, { kind: 'drug', drug: 'Adrenaline', dose: 1, unit: 'mg', route: 'io' })], 900);
     expect(early['time-to-epinephrine']).toMatchObject({ applies: true, met: true, value: 180 });
     expect(early['time-to-epinephrine']?.source).toMatch(/Donnino MW.*BMJ 2014/);
+    // Donnino 2014 compared bands; it does not define a 5-minute target, and the source says so.
+    expect(early['time-to-epinephrine']?.source).toMatch(/No published source defines a 5-minute adult target/);
     expect(early['time-to-shock']).toMatchObject({ applies: false, met: null });
     const late = targetsOf([e(30, { kind: 'rhythm', rhythm: 'pea', pulse: false }), e(360, { kind: 'drug', drug: 'epinephrine', dose: 1, unit: 'mg', route: 'iv' })], 900);
     expect(late['time-to-epinephrine']).toMatchObject({ applies: true, met: false, value: 360 });

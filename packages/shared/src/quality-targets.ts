@@ -1,6 +1,7 @@
 import type { Rhythm } from './entries.js';
 import type { CodeSummary } from './summary.js';
 import { PRE_SHOCK_PAUSE_TARGET_SECONDS } from './summary.js';
+import { witnessedOrMonitored, type UtsteinDetails } from './utstein.js';
 
 /**
  * The resuscitation committee's targets, each with its rule and its source as the clinical
@@ -31,7 +32,9 @@ export interface QualityTargetSettings {
 export const DEFAULT_QUALITY_TARGETS: QualityTargetSettings = {
   // Chan 2008 NEJM: "within 2 min" is the guideline basis (clinical sheet §6, confirmed primary, abstract).
   shockSeconds: 120,
-  // Donnino 2014 BMJ: odds of survival fell from the 4-6 min band on (sheet §6); 5 min is the committee's cut-off.
+  // Not a published adult target: the committee's local cut-off, set where Donnino 2014 BMJ's
+  // survival odds start to fall (the 4-6 min band, sheet §6); AHA 2020 PALS gives "within 5 min"
+  // for children (sheet §2, from memory).
   epinephrineSeconds: 300,
   // Meaney 2013 AHA consensus: CCF goal > 80% (sheet §3, confirmed secondary).
   compressionFraction: 0.8,
@@ -42,6 +45,11 @@ export const DEFAULT_QUALITY_TARGETS: QualityTargetSettings = {
 /** What the targets are computed from: the summary's numbers, or a stored metrics row. */
 export interface TargetInputs {
   firstRhythm: Rhythm | null;
+  /**
+   * From the registry details: true when the arrest was witnessed or monitored, false when it
+   * was neither, null while not known (the time-to-shock target needs it).
+   */
+  witnessedOrMonitored: boolean | null;
   anyRosc: boolean;
   toFirstShockSeconds: number | null;
   toFirstEpinephrineSeconds: number | null;
@@ -75,9 +83,9 @@ const mmss = (s: number) => `${Math.floor(s / 60)}:${String(Math.round(s % 60)).
 
 export const TARGET_SOURCES: Record<QualityTargetId, string> = {
   'time-to-shock':
-    'Chan PS et al., NEJM 2008;358:9-17 (DOI 10.1056/NEJMoa0706467): defibrillation within 2 min of an in-hospital arrest from VF/pVT is the AHA guideline basis; delay beyond 2 min was linked to lower survival to discharge (22.2% vs 39.3%). Clinical sheet §6, confirmed (primary, abstract).',
+    'Chan PS et al., NEJM 2008;358:9-17 (DOI 10.1056/NEJMoa0706467): defibrillation within 2 min of an in-hospital arrest from VF/pVT is the AHA guideline basis; delay beyond 2 min was linked to lower survival to discharge (22.2% vs 39.3%). Clinical sheet §6, confirmed (primary, abstract). Counting only witnessed or monitored arrests, whose start is known, is the committee\'s rule (common practice, no published source in our sheet).',
   'time-to-epinephrine':
-    'Donnino MW et al., BMJ 2014;348:g3028: for a nonshockable first rhythm, survival fell as time to first epinephrine grew (adjusted OR 0.91 at 4-6 min, 0.74 at 7-9 min vs 1-3 min). Clinical sheet §6, confirmed (primary, abstract). AHA 2020 adult algorithm: epinephrine as soon as possible for nonshockable rhythms (wording from memory).',
+    'No published source defines a 5-minute adult target: it is the committee\'s local cut-off. It is informed by Donnino MW et al., BMJ 2014;348:g3028, which compared time-to-epinephrine bands for a nonshockable first rhythm and found survival fell as the time grew (adjusted OR 0.91 at 4-6 min, 0.74 at 7-9 min, vs 1-3 min; clinical sheet §6, confirmed primary, abstract); the AHA 2020 adult algorithm says "as soon as possible" for nonshockable rhythms (clinical sheet §1a). For children, AHA 2020 PALS calls first epinephrine within 5 min of starting compressions reasonable (clinical sheet §2, from memory).',
   'compression-fraction':
     'Meaney PA et al., AHA consensus statement on CPR quality, Circulation 2013;128:417-435: compression fraction goal above 80% (clinical sheet §3, confirmed secondary). AHA 2015/2020 minimum: at least 60%.',
   'pre-shock-pause':
@@ -99,10 +107,13 @@ function firstTimeTarget(t: {
   value: number | null;
   rhythm: Rhythm | null;
   anyRosc: boolean;
+  /** A further condition the target needs, and why it does not apply when unmet. */
+  gate?: { ok: boolean; why: string };
 }): TargetResult {
   const inGroup = t.rhythm !== null && t.rhythms.includes(t.rhythm);
-  const exempt = inGroup && t.value === null && t.anyRosc;
-  const applies = inGroup && !exempt;
+  const gated = inGroup && t.gate !== undefined && !t.gate.ok;
+  const exempt = inGroup && !gated && t.value === null && t.anyRosc;
+  const applies = inGroup && !gated && !exempt;
   const none = t.what === 'a shock' ? 'No shock was recorded.' : `No ${t.what} was recorded.`;
   return {
     id: t.id,
@@ -115,7 +126,9 @@ function firstTimeTarget(t: {
     unit: 's',
     note: !inGroup
       ? `The first rhythm was not ${t.rhythmWords}.`
-      : exempt
+      : gated
+        ? (t.gate?.why ?? null)
+        : exempt
         ? `ROSC was reached without ${t.what}.`
         : t.value === null
           ? none
@@ -131,12 +144,21 @@ export function evaluateTargetInputs(
   const rhythm = inputs.firstRhythm;
   const results: TargetResult[] = [];
 
-  // Time to shock: a shockable rhythm with no shock is a miss, unless ROSC came without one.
+  // Time to shock: a shockable rhythm with no shock is a miss, unless ROSC came without one;
+  // only for an arrest witnessed or monitored, whose start is known.
+  const wm = inputs.witnessedOrMonitored;
   results.push(
     firstTimeTarget({
       id: 'time-to-shock',
       label: 'Time to first shock',
-      rule: `First defibrillation within ${mmss(settings.shockSeconds)} of the arrest, when the first rhythm is VF or pVT.`,
+      rule: `First defibrillation within ${mmss(settings.shockSeconds)} of the arrest, when the first rhythm is VF or pVT and the arrest was witnessed or monitored.`,
+      gate: {
+        ok: wm === true,
+        why:
+          wm === false
+            ? 'The arrest was neither witnessed nor monitored: its true start is not known, so the time to the first shock is not judged.'
+            : 'Whether the arrest was witnessed or monitored is not recorded yet: complete the registry details for this target to apply.',
+      },
       rhythms: SHOCKABLE,
       rhythmWords: 'VF or pVT',
       what: 'a shock',
@@ -194,13 +216,14 @@ export function evaluateTargetInputs(
   return results;
 }
 
-/** The numbers the targets need, read from a code's summary. */
-export function targetInputsOf(summary: CodeSummary): TargetInputs {
+/** The numbers the targets need, read from a code's summary and its registry details. */
+export function targetInputsOf(summary: CodeSummary, details: Pick<UtsteinDetails, 'witnessed' | 'monitored'> = {}): TargetInputs {
   const pre = summary.shocks
     .map((s) => s.preShockPauseSeconds)
     .filter((s): s is number => s !== null);
   return {
     firstRhythm: summary.firstRhythm,
+    witnessedOrMonitored: witnessedOrMonitored(details),
     anyRosc: summary.anyRosc,
     toFirstShockSeconds: summary.intervals.arrestToFirstShock,
     toFirstEpinephrineSeconds: summary.intervals.arrestToFirstEpinephrine,
@@ -209,12 +232,13 @@ export function targetInputsOf(summary: CodeSummary): TargetInputs {
   };
 }
 
-/** Each target met or missed for one code, from its summary. */
+/** Each target met or missed for one code, from its summary and its registry details. */
 export function evaluateTargets(
   summary: CodeSummary,
+  details: Pick<UtsteinDetails, 'witnessed' | 'monitored'> = {},
   settings: QualityTargetSettings = DEFAULT_QUALITY_TARGETS,
 ): TargetResult[] {
-  return evaluateTargetInputs(targetInputsOf(summary), settings);
+  return evaluateTargetInputs(targetInputsOf(summary, details), settings);
 }
 
 /** Ids of the targets missed. */

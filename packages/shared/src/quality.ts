@@ -1,10 +1,22 @@
 import { z } from 'zod';
 import { textSchema } from './text.js';
-import { COMPRESSION_FRACTION_EDGES, histogram, quantileSummary, shareOf, type HistogramBin, type QuantileSummary, type Share } from './aggregate.js';
+import {
+  COMPRESSION_FRACTION_EDGES,
+  histogram,
+  quantileSummary,
+  RATE_METHOD,
+  rateWithInterval,
+  shareOf,
+  type HistogramBin,
+  type QuantileSummary,
+  type RateWithInterval,
+  type Share,
+} from './aggregate.js';
 import type { CodeCategory } from './codes.js';
 import { OUTCOMES, RHYTHMS, type Outcome, type Rhythm } from './entries.js';
 import { evaluateTargetInputs, QUALITY_TARGET_IDS, type QualityTargetId, type TargetInputs, type TargetResult } from './quality-targets.js';
 import type { CodeSummary } from './summary.js';
+import type { FollowUp, SurvivalToDischarge, UtsteinDetails } from './utstein.js';
 
 export * from './quality-targets.js';
 export * from './aggregate.js';
@@ -136,6 +148,40 @@ export interface QualityCodeDetail {
   targets: TargetResult[];
   review: QualityReview;
   signatures: { printedName: string; meaning: string; signedAt: string }[];
+  /** The registry details as they read now (signed ones with their addenda applied). */
+  utstein: UtsteinDetails;
+  followUp: FollowUp;
+}
+
+/** `GET /api/quality/follow-up`: ended codes still waiting for their follow-up, oldest arrest first. */
+export const followUpListQuerySchema = z
+  .object({
+    unitId: textSchema().trim().min(1).max(64).optional(),
+    page: z.coerce.number().int().min(1, 'page starts at 1').max(100000).default(1),
+    pageSize: z.coerce.number().int().min(1).max(200, 'pageSize is at most 200').default(50),
+  })
+  .strict();
+export type FollowUpListQuery = z.infer<typeof followUpListQuerySchema>;
+
+export interface FollowUpListItem {
+  codeId: string;
+  arrestAt: string;
+  /** Whole days from the arrest to the moment of the answer (UTC). */
+  daysSinceArrest: number;
+  unitId: string | null;
+  unitName: string | null;
+  location: string | null;
+  outcome: Outcome | null;
+  anyRosc: boolean;
+  followUp: FollowUp;
+}
+
+export interface FollowUpListResponse {
+  items: FollowUpListItem[];
+  total: number;
+  page: number;
+  pageSize: number;
+  units: QualityUnit[];
 }
 
 // --- across codes ---
@@ -147,6 +193,9 @@ export interface QualityMetricsRow extends TargetInputs {
   unitName: string | null;
   durationSeconds: number | null;
   toCompressionsSeconds: number | null;
+  /** From the follow-up; null when not entered. */
+  survivalToDischarge: SurvivalToDischarge | null;
+  followUpComplete: boolean;
 }
 
 export const QUALITY_INTERVALS = ['toCompressionsSeconds', 'toFirstShockSeconds', 'toFirstEpinephrineSeconds', 'durationSeconds'] as const;
@@ -167,6 +216,12 @@ export interface QualityGroupStats {
   intervals: Record<QualityInterval, QuantileSummary>;
   compressionFraction: QuantileSummary;
   targets: Record<QualityTargetId, Share>;
+  /** Any ROSC, of every code in the group (always known), with its 95% Wilson interval. */
+  rosc: RateWithInterval;
+  /** Survival to hospital discharge, of the codes whose answer is known (yes or no). */
+  survivalToDischarge: RateWithInterval;
+  /** Codes whose follow-up is complete, of every code in the group. */
+  followUpComplete: { complete: number; codes: number; share: number | null };
 }
 
 export interface QualityStats {
@@ -175,6 +230,8 @@ export interface QualityStats {
   byUnit: QualityGroupStats[];
   compressionFractionBins: HistogramBin[];
   quantileMethod: string;
+  /** How the rates' confidence intervals are computed (the page says so). */
+  rateMethod: string;
 }
 
 export const QUANTILE_METHOD =
@@ -186,7 +243,18 @@ function groupStats(key: string, label: string, rows: readonly QualityMetricsRow
     QUALITY_TARGET_IDS.map((id) => [id, shareOf(evaluated.map((list) => list.find((t) => t.id === id)?.met ?? null))]),
   ) as Record<QualityTargetId, Share>;
   const intervals = Object.fromEntries(QUALITY_INTERVALS.map((k) => [k, quantileSummary(rows.map((r) => r[k]))])) as Record<QualityInterval, QuantileSummary>;
-  return { key, label, codes: rows.length, intervals, compressionFraction: quantileSummary(rows.map((r) => r.compressionFraction)), targets };
+  const complete = rows.filter((r) => r.followUpComplete).length;
+  return {
+    key,
+    label,
+    codes: rows.length,
+    intervals,
+    compressionFraction: quantileSummary(rows.map((r) => r.compressionFraction)),
+    targets,
+    rosc: rateWithInterval(rows.map((r) => r.anyRosc)),
+    survivalToDischarge: rateWithInterval(rows.map((r) => (r.survivalToDischarge === 'yes' ? true : r.survivalToDischarge === 'no' ? false : null))),
+    followUpComplete: { complete, codes: rows.length, share: rows.length === 0 ? null : complete / rows.length },
+  };
 }
 
 const pct = (from: number, to: number) => `${Math.round(from * 100)}-${Math.round(to * 100)}%`;
@@ -211,5 +279,6 @@ export function aggregateQuality(rows: readonly QualityMetricsRow[]): QualitySta
     byUnit: [...byUnit.entries()].sort(([, a], [, b]) => a.label.localeCompare(b.label)).map(([k, u]) => groupStats(k, u.label, u.rows)),
     compressionFractionBins: histogram(rows.map((r) => r.compressionFraction), COMPRESSION_FRACTION_EDGES, pct),
     quantileMethod: QUANTILE_METHOD,
+    rateMethod: RATE_METHOD,
   };
 }

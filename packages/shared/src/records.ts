@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { textSchema } from './text.js';
 import { patientSchema, type Code } from './codes.js';
 import { OUTCOMES, type StoredEntry } from './entries.js';
+import { utsteinPatchSchema, type UtsteinAddendum, type UtsteinDetails } from './utstein.js';
 
 /**
  * The signed record: review details completed after the code, signatures and their meanings
@@ -16,7 +17,10 @@ export const teamMemberSchema = z
   .strict();
 export type TeamMember = z.infer<typeof teamMemberSchema>;
 
-/** Details completed at review. Refused once the record carries a signature (then: addenda). */
+/**
+ * Details completed at review. Refused once the record carries a signature (then: addenda),
+ * except `utstein`: its changes after the first signature are kept as addenda of their own.
+ */
 export const reviewDetailsSchema = z
   .object({
     team: z.array(teamMemberSchema).max(40).optional(),
@@ -24,6 +28,8 @@ export const reviewDetailsSchema = z
     outcome: z.enum(OUTCOMES).optional(),
     patient: patientSchema.nullable().optional(),
     location: textSchema().trim().max(120).nullable().optional(),
+    /** The registry details (utstein.ts): a field sent replaces, null clears, one left out stays. */
+    utstein: utsteinPatchSchema.optional(),
   })
   .strict()
   .refine((v) => Object.keys(v).length > 0, 'Send at least one field to change');
@@ -113,7 +119,11 @@ export interface CodeAttachment extends RecordAttachment {
 /** Attachment types the server accepts, checked from the bytes. */
 export const ATTACHMENT_MEDIA_TYPES = ['image/png', 'image/jpeg', 'image/webp', 'application/pdf'] as const;
 
-export type RecordCode = Code & { team: TeamMember[]; debriefNotes: string | null };
+/**
+ * The code as its record holds it. `utstein`: the registry details as completed before the first
+ * signature (absent when none were entered, so records signed before they existed keep their digest).
+ */
+export type RecordCode = Code & { team: TeamMember[]; debriefNotes: string | null; utstein?: UtsteinDetails };
 
 /** Everything the signatures and the digest cover. */
 export interface CanonicalRecord {
@@ -123,6 +133,8 @@ export interface CanonicalRecord {
   /** Every stored entry (corrections and addenda included) in cursor order, with the server's fields. */
   entries: StoredEntry[];
   attachments: RecordAttachment[];
+  /** Changes to the registry details after the first signature, oldest first; absent when none. */
+  detailAddenda?: UtsteinAddendum[];
 }
 
 /** Where a code's entry chain first fails to check. */
@@ -168,6 +180,8 @@ export interface RecordView {
    * entries when it was (a later rename changes nothing), else their name now.
    */
   people: Record<string, string>;
+  /** When the code's quality review was signed off (its registry details are closed then), or null. */
+  qualityReviewedAt: string | null;
 }
 
 /** `GET /api/records`: ended codes, newest first, with how far their record is signed. */

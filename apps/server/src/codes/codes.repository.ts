@@ -1,14 +1,14 @@
 import { BadRequestException, Inject, Injectable } from '@nestjs/common';
-import type { Code, CodeStatus, NewEntry, Outcome, StoredEntry, WeightSource } from '@steadyhand/shared';
+import type { Code, CodeStatus, NewEntry, Outcome, StoredEntry, UtsteinAddendum, UtsteinDetails, WeightSource } from '@steadyhand/shared';
 import { and, desc, eq, isNull } from 'drizzle-orm';
 import type { Statement } from 'better-sqlite3';
 import { DATABASE, DB } from '../db/database.module.js';
 import type { DatabaseHandle, Db } from '../db/database.js';
-import { codes } from '../db/schema/index.js';
+import { codes, utsteinAddenda } from '../db/schema/index.js';
 import { NotCanonicalisable } from '../common/canonical-json.js';
 import { LogReader } from './log-reader.js';
 import { CHAIN_START, entryLinkHash, type EntryLink } from './entry-chain.js';
-import { attachmentsDigest, differingParts, EMPTY_SEAL_STATE, SealKey, type SealPart, type SealState, type StoredSeal } from './record-seal.js';
+import { attachmentsDigest, detailAddendaDigest, differingParts, EMPTY_SEAL_STATE, SealKey, type SealPart, type SealState, type StoredSeal } from './record-seal.js';
 
 type CodeRow = typeof codes.$inferSelect;
 
@@ -72,10 +72,11 @@ export class CodesRepository {
     lastLink: Statement<[string], { position: number; hash: string }>;
     insertLink: Statement<[string, string, number, string, string]>;
     seal: Statement<[string], StoredSeal>;
-    writeSeal: Statement<[string, number, string, number, string, string, string]>;
+    writeSeal: Statement<[string, number, string, number, string, string | null, string, string]>;
     countSignatures: Statement<[string], { n: number }>;
     attachmentList: Statement<[string], { id: string; sha256: string }>;
     entryCount: Statement<[string], { n: number }>;
+    detailAddenda: Statement<[string], { id: string; codeId: string; recordedAt: string; userId: string; userName: string; changes: string }>;
   };
 
   private readonly reader: LogReader;
@@ -98,15 +99,18 @@ export class CodesRepository {
       // A seek on the (code_id, position) unique index.
       lastLink: sqlite.prepare('SELECT position, hash FROM entry_links WHERE code_id = ? ORDER BY position DESC LIMIT 1'),
       insertLink: sqlite.prepare('INSERT INTO entry_links (entry_id, code_id, position, prev_hash, hash) VALUES (?, ?, ?, ?, ?)'),
-      seal: sqlite.prepare('SELECT code_id AS codeId, entries, head, signatures, attachments, mac FROM record_seals WHERE code_id = ?'),
+      seal: sqlite.prepare('SELECT code_id AS codeId, entries, head, signatures, attachments, detail_addenda AS detailAddenda, mac FROM record_seals WHERE code_id = ?'),
       writeSeal: sqlite.prepare(
-        `INSERT INTO record_seals (code_id, entries, head, signatures, attachments, mac, sealed_at) VALUES (?, ?, ?, ?, ?, ?, ?)
+        `INSERT INTO record_seals (code_id, entries, head, signatures, attachments, detail_addenda, mac, sealed_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?)
          ON CONFLICT(code_id) DO UPDATE SET entries = excluded.entries, head = excluded.head, signatures = excluded.signatures,
-           attachments = excluded.attachments, mac = excluded.mac, sealed_at = excluded.sealed_at`,
+           attachments = excluded.attachments, detail_addenda = excluded.detail_addenda, mac = excluded.mac, sealed_at = excluded.sealed_at`,
       ),
       countSignatures: sqlite.prepare('SELECT count(*) AS n FROM signatures WHERE code_id = ?'),
       attachmentList: sqlite.prepare('SELECT id, sha256 FROM attachments WHERE code_id = ?'),
       entryCount: sqlite.prepare('SELECT count(*) AS n FROM entries WHERE code_id = ?'),
+      detailAddenda: sqlite.prepare(
+        'SELECT id, code_id AS codeId, recorded_at AS recordedAt, user_id AS userId, user_name AS userName, changes FROM utstein_addenda WHERE code_id = ? ORDER BY recorded_at, id',
+      ),
     };
   }
 
@@ -249,11 +253,12 @@ export class CodesRepository {
       head: last?.hash ?? CHAIN_START,
       signatures: this.hot.countSignatures.get(codeId)?.n ?? 0,
       attachments: attachmentsDigest(this.hot.attachmentList.all(codeId)),
+      detailAddenda: detailAddendaDigest(this.detailAddendaOf(codeId)),
     };
   }
 
   private writeSeal(codeId: string, state: SealState): void {
-    this.hot.writeSeal.run(codeId, state.entries, state.head, state.signatures, state.attachments, this.sealKey.mac(codeId, state), new Date().toISOString());
+    this.hot.writeSeal.run(codeId, state.entries, state.head, state.signatures, state.attachments, state.detailAddenda, this.sealKey.mac(codeId, state), new Date().toISOString());
   }
 
   /**
@@ -274,7 +279,7 @@ export class CodesRepository {
    * Runs a write that adds a signature or an attachment, and moves that part of the seal in the
    * same transaction.
    */
-  sealedWrite<T>(codeId: string, part: 'signatures' | 'attachments', write: () => T): T {
+  sealedWrite<T>(codeId: string, part: 'signatures' | 'attachments' | 'detailAddenda', write: () => T): T {
     return this.database.sqlite.transaction(() => {
       const before = this.sealState(codeId);
       const result = write();
@@ -292,6 +297,30 @@ export class CodesRepository {
     });
     sealAll.immediate();
     return ids.length;
+  }
+
+  // --- the registry details (Utstein) ------------------------------------------------------------
+
+  /** The details as stored on the code (as they stood at the first signature, once signed). */
+  utsteinOf(codeId: string): UtsteinDetails | undefined {
+    const row = this.db.select({ utstein: codes.utstein }).from(codes).where(eq(codes.id, codeId)).get();
+    return (row?.utstein ?? undefined);
+  }
+
+  setUtstein(codeId: string, details: UtsteinDetails): void {
+    this.db.update(codes).set({ utstein: Object.keys(details).length ? details : null }).where(eq(codes.id, codeId)).run();
+  }
+
+  /** Changes after the first signature, oldest first. */
+  detailAddendaOf(codeId: string): UtsteinAddendum[] {
+    return this.hot.detailAddenda.all(codeId).map(({ codeId: _c, changes, ...row }) => ({ ...row, changes: JSON.parse(changes) as UtsteinAddendum['changes'] }));
+  }
+
+  /** Stores one addendum and moves the seal's addenda digest in the same transaction. */
+  addDetailAddendum(codeId: string, addendum: UtsteinAddendum): void {
+    this.sealedWrite(codeId, 'detailAddenda', () => {
+      this.db.insert(utsteinAddenda).values({ ...addendum, codeId, changes: addendum.changes as Record<string, { from: unknown; to: unknown }> }).run();
+    });
   }
 
   /** Keeps the facility name a record was first signed under (see codes.facility_name). */

@@ -17,6 +17,9 @@ import {
   type StoredEntry,
   type Timeline,
   type UpdateCodeRequest,
+  type UtsteinAddendum,
+  type UtsteinDetails,
+  effectiveUtstein,
 } from '@steadyhand/shared';
 import { AuditService } from '../audit/audit.service.js';
 import type { SessionUser } from '../auth/session-user.js';
@@ -98,6 +101,21 @@ export class CodesService {
   /** Team and debrief notes kept beside the code, completed at review. */
   reviewDetails(id: string): ReturnType<CodesRepository['reviewDetails']> {
     return this.repo.reviewDetails(id);
+  }
+
+  /**
+   * The registry details: as stored with the code (`signed`: as they stood at the first signature,
+   * once signed), the addenda since, and how they read now.
+   */
+  utsteinState(id: string): { stored: UtsteinDetails; addenda: UtsteinAddendum[]; now: UtsteinDetails } {
+    const stored = this.repo.utsteinOf(id) ?? {};
+    const addenda = this.repo.detailAddendaOf(id);
+    return { stored, addenda, now: effectiveUtstein(stored, addenda) };
+  }
+
+  /** The registry details as they read now. */
+  utsteinOf(id: string): UtsteinDetails {
+    return this.utsteinState(id).now;
   }
 
   get(id: string): Code {

@@ -13,7 +13,7 @@ export class RecordSealService {
   ) {}
 
   /** Runs a write that adds a signature or an attachment, moving that part of the seal in the same transaction. */
-  sealedWrite<T>(codeId: string, part: 'signatures' | 'attachments', write: () => T): T {
+  sealedWrite<T>(codeId: string, part: 'signatures' | 'attachments' | 'detailAddenda', write: () => T): T {
     return this.repo.sealedWrite(codeId, part, write);
   }
 
@@ -31,8 +31,10 @@ export class RecordSealService {
         );
       } else if (part === 'signatures') {
         problems.push(`${now.signatures} signature${now.signatures === 1 ? ' is' : 's are'} stored, but the seal counts ${seal.signatures}: a signature was removed or added outside Steadyhand.`);
-      } else {
+      } else if (part === 'attachments') {
         problems.push('The attachments listed are not the ones the server sealed: an attachment was removed, added or changed outside Steadyhand.');
+      } else {
+        problems.push('The changes to the registry details after signing are not the ones the server sealed: one was removed, added or rewritten outside Steadyhand.');
       }
     }
     return problems;

@@ -19,16 +19,23 @@ export interface SealState {
   signatures: number;
   /** SHA-256 of the attachment list (id and file digest of each, by id). */
   attachments: string;
+  /** SHA-256 of the registry-details addenda (each row in full, oldest first); null while there are none. */
+  detailAddenda: string | null;
 }
 
-export type SealPart = 'entries' | 'signatures' | 'attachments';
+export type SealPart = 'entries' | 'signatures' | 'attachments' | 'detailAddenda';
 
 export interface StoredSeal extends SealState {
   codeId: string;
   mac: string;
 }
 
-export const EMPTY_SEAL_STATE: SealState = { entries: 0, head: CHAIN_START, signatures: 0, attachments: attachmentsDigest([]) };
+export const EMPTY_SEAL_STATE: SealState = { entries: 0, head: CHAIN_START, signatures: 0, attachments: attachmentsDigest([]), detailAddenda: null };
+
+/** The digest the seal keeps of a code's registry-details addenda; null for none. */
+export function detailAddendaDigest(rows: readonly unknown[]): string | null {
+  return rows.length === 0 ? null : sha256Hex(canonicalText(rows));
+}
 
 export function attachmentsDigest(list: readonly { id: string; sha256: string }[]): string {
   const sorted = [...list].sort((a, b) => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0)).map((a) => ({ id: a.id, sha256: a.sha256 }));
@@ -41,6 +48,7 @@ export function differingParts(a: SealState, b: SealState): SealPart[] {
   if (a.entries !== b.entries || a.head !== b.head) parts.push('entries');
   if (a.signatures !== b.signatures) parts.push('signatures');
   if (a.attachments !== b.attachments) parts.push('attachments');
+  if ((a.detailAddenda ?? null) !== (b.detailAddenda ?? null)) parts.push('detailAddenda');
   return parts;
 }
 
@@ -60,7 +68,16 @@ export class SealKey {
   }
 
   mac(codeId: string, state: SealState): string {
-    const text = canonicalText({ format: 'steadyhand-seal/1', codeId, entries: state.entries, head: state.head, signatures: state.signatures, attachments: state.attachments });
+    // Registry-details addenda join the sealed text only once there are some, so seals made before them still verify.
+    const text = canonicalText({
+      format: 'steadyhand-seal/1',
+      codeId,
+      entries: state.entries,
+      head: state.head,
+      signatures: state.signatures,
+      attachments: state.attachments,
+      ...(state.detailAddenda ? { detailAddenda: state.detailAddenda } : {}),
+    });
     return createHmac('sha256', this.key).update(text, 'utf8').digest('hex');
   }
 

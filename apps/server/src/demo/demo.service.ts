@@ -11,6 +11,7 @@ import { EntriesService } from '../codes/entries.service.js';
 import { seedDemoTray } from '../pharmacy/demo-tray.js';
 import { RecordsService } from '../records/records.service.js';
 import { UsersService } from '../users/users.service.js';
+import { FollowUpService } from '../quality/follow-up.service.js';
 import { DEMO_CODES, type DemoCode } from './demo-codes.js';
 import { DEMO_FACILITY, DEMO_PASSWORD, DEMO_PEOPLE, DEMO_UNITS } from './demo-data.js';
 import type { PasswordAttempt } from '../auth/login-throttle.service.js';
@@ -35,6 +36,7 @@ export class DemoService {
     @Inject(CodesService) private readonly codes: CodesService,
     @Inject(EntriesService) private readonly entries: EntriesService,
     @Inject(RecordsService) private readonly records: RecordsService,
+    @Inject(FollowUpService) private readonly followUps: FollowUpService,
   ) {}
 
   info(): DemoInfo {
@@ -115,6 +117,18 @@ export class DemoService {
         ...(demo.debriefNotes ? { debriefNotes: demo.debriefNotes } : {}),
       });
     }
+    if (demo.utstein) {
+      const { teamArrivedAt, padsOnAt, deathPronouncedAt, ...coded } = demo.utstein;
+      const at = (seconds: number) => new Date(arrest + seconds * 1000).toISOString();
+      this.records.updateReview(recorder, code.id, {
+        utstein: {
+          ...coded,
+          ...(teamArrivedAt !== undefined ? { teamArrivedAt: at(teamArrivedAt) } : {}),
+          ...(padsOnAt !== undefined ? { padsOnAt: at(padsOnAt) } : {}),
+          ...(deathPronouncedAt !== undefined ? { deathPronouncedAt: at(deathPronouncedAt) } : {}),
+        },
+      });
+    }
     if (demo.signedBy.recorder)
       await this.records.sign(person(demo.signedBy.recorder), code.id, {
         meaning: 'recorded-by',
@@ -125,5 +139,15 @@ export class DemoService {
         meaning: 'reviewed-confirmed',
         password: DEMO_PASSWORD,
       }, DEMO_LOADER);
+    if (demo.followUp) {
+      const f = demo.followUp;
+      const day = (n: number | undefined) => (n === undefined ? null : new Date(arrest + n * 86_400_000).toISOString().slice(0, 10));
+      this.followUps.save(person('ewan.trelawny'), code.id, {
+        survivalToDischarge: f.survivalToDischarge,
+        survivalToDischargeDate: day(f.survivalDay),
+        ...(f.status30Days ? { status30Days: f.status30Days, status30DaysDate: day(f.status30Day) } : {}),
+        ...(f.neurologicalOutcome ? { neurologicalOutcome: f.neurologicalOutcome, neurologicalOutcomeDate: day(f.neurologicalOutcomeDay) } : {}),
+      });
+    }
   }
 }

@@ -26,6 +26,9 @@ describe('FHIR document bundle from the shared builder', () => {
       e(320, { kind: 'drug', drug: 'Glucagon', dose: 1000, unit: 'ug', route: 'other' }),
       e(330, { kind: 'drug', drug: 'magnesium-sulfate', dose: 2, unit: 'g', route: 'io' }),
       e(340, { kind: 'etco2', mmHg: 32 }),
+      e(350, { kind: 'airway', device: 'supraglottic' }),
+      e(360, { kind: 'access', route: 'iv', site: 'left antecubital' }),
+      e(400, { kind: 'rosc' }),
       e(600, { kind: 'end', outcome: 'other' }),
     ];
     const code = { id: uuid(), category: 'adult' as const, location: null, arrestAt: ARREST, endedAt: at(600), patient: { name: 'Unknown, Bay 2', sex: 'female' as const, birthDate: '1950-02-03', mrn: 'HV-0042' } };
@@ -33,6 +36,21 @@ describe('FHIR document bundle from the shared builder', () => {
     const bundle = buildFhirBundle({
       code, timeline, facility: 'Harbourview General Hospital', unitName: null,
       summary: summarize(timeline),
+      // Every kind of registry detail and follow-up answer, so each resource they make is validated.
+      utstein: {
+        witnessed: 'yes', witnessedBy: 'other', monitored: 'yes', monitoring: ['ecg', 'arterial-line'], arrestLocation: 'procedure-area',
+        teamArrivedAt: at(60), padsOnAt: at(-300), cause: 'other', causeNote: 'Air embolism', specialCircumstances: ['pregnancy', 'trauma'],
+        treatmentLimitation: 'none', mechanicalCpr: 'yes', ecpr: 'no', stopReason: 'other', deathPronouncedAt: at(650), deathPronouncedBy: 'Dr Kofi Asante',
+        temperatureControl: 'no', twelveLeadEcg: 'not-done', handoverSystolicMmHg: 90, handoverDiastolicMmHg: 50, handoverSpo2Percent: 92,
+        handoverGlucose: { value: 160, unit: 'mg/dL' }, destination: 'other-hospital',
+      },
+      followUp: {
+        survivalToDischarge: { value: 'no', date: '2026-03-04', enteredBy: { id: 'u', displayName: 'Ewan Trelawny, RN' }, enteredAt: at(2000) },
+        status30Days: { value: 'dead', date: '2026-03-04', enteredBy: { id: 'u', displayName: 'Ewan Trelawny, RN' }, enteredAt: at(2000) },
+        neurologicalOutcome: { value: 'cpc-5', date: null, enteredBy: { id: 'u', displayName: 'Ewan Trelawny, RN' }, enteredAt: at(2000) },
+        complete: true,
+        missing: [],
+      },
       signatures: [{ printedName: 'Dr Kofi Asante', meaning: 'reviewed-confirmed', signedAt: at(900) }],
       generatedAt: at(1000), newId: uuid,
     });
@@ -47,6 +65,8 @@ describe('FHIR document bundle from the shared builder', () => {
     expect(JSON.stringify(meds)).toContain('"code":"ug"');
     const shocks = resources.filter((r) => r.resourceType === 'Procedure' && r.id !== undefined && JSON.stringify(r).includes(' J, '));
     expect(shocks).toHaveLength(2);
+    expect(resources.find((r) => r.resourceType === 'Patient')).toMatchObject({ deceasedDateTime: at(650) });
+    expect(resources.filter((r) => r.resourceType === 'Observation').length).toBeGreaterThanOrEqual(20);
   });
 
   it('the validator itself refuses a broken bundle (so a pass above means something)', () => {

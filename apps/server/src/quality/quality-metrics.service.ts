@@ -6,7 +6,8 @@ import { QualityRepository } from './quality.repository.js';
 
 /**
  * Keeps `code_metrics` in step with the log: an ended code's row is recomputed whenever an entry
- * lands on it (a correction or addendum after the end) or its details change; a code that reopens
+ * lands on it (a correction or addendum after the end) or its details change (the registry details
+ * too: the time-to-shock target reads witnessed and monitored); a code that reopens
  * loses its row. Listens to the codes module's events, so the tap path does not know about us.
  */
 @Injectable()
@@ -40,7 +41,7 @@ export class QualityMetricsService implements OnApplicationBootstrap {
       if (removeIfOpen) this.repo.deleteMetrics(codeId);
       return;
     }
-    this.repo.upsertMetrics(computeCodeMetrics(code, this.codes.timelineOf(code, this.codes.entriesOf(codeId))));
+    this.repo.upsertMetrics(computeCodeMetrics(code, this.codes.timelineOf(code, this.codes.entriesOf(codeId)), this.codes.utsteinOf(codeId)));
   }
 
   // The listener runs inside the entry's request after its commit: a failure here must never fail the tap.

@@ -1,10 +1,16 @@
 import { Body, Controller, Get, HttpCode, Inject, Param, Post, Put, Query, Res } from '@nestjs/common';
 import {
+  followUpListQuerySchema,
+  followUpSchema,
   qualityFilterSchema,
   qualityListQuerySchema,
   qualityReviewSchema,
   qualitySignOffSchema,
   type FhirBundle,
+  type FollowUp,
+  type FollowUpListQuery,
+  type FollowUpListResponse,
+  type FollowUpRequest,
   type QualityCodeDetail,
   type QualityFilter,
   type QualityListQuery,
@@ -19,13 +25,17 @@ import { Attempt, CurrentUser, Roles } from '../auth/auth.decorators.js';
 import type { PasswordAttempt } from '../auth/login-throttle.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { ZodValidationPipe } from '../common/zod-validation.pipe.js';
+import { FollowUpService } from './follow-up.service.js';
 import { QualityService } from './quality.service.js';
 
 /** The quality reviewer's area: reviewers and admins only, every route. */
 @Roles('reviewer', 'admin')
 @Controller('quality')
 export class QualityController {
-  constructor(@Inject(QualityService) private readonly quality: QualityService) {}
+  constructor(
+    @Inject(QualityService) private readonly quality: QualityService,
+    @Inject(FollowUpService) private readonly followUps: FollowUpService,
+  ) {}
 
   @Roles('reviewer', 'admin')
   @Get('codes')
@@ -49,6 +59,22 @@ export class QualityController {
     res.setHeader('content-type', 'text/csv; charset=utf-8; header=present');
     res.setHeader('content-disposition', `attachment; filename="steadyhand-utstein-${new Date().toISOString().slice(0, 10)}.csv"`);
     return this.quality.utsteinCsv(user, filter);
+  }
+
+  @Roles('reviewer', 'admin')
+  @Get('follow-up')
+  followUpList(@Query(new ZodValidationPipe(followUpListQuerySchema)) query: FollowUpListQuery): FollowUpListResponse {
+    return this.followUps.waiting(query);
+  }
+
+  @Roles('reviewer', 'admin')
+  @Put('codes/:id/follow-up')
+  saveFollowUp(
+    @CurrentUser() user: SessionUser,
+    @Param('id') id: string,
+    @Body(new ZodValidationPipe(followUpSchema)) body: FollowUpRequest,
+  ): { followUp: FollowUp } {
+    return { followUp: this.followUps.save(user, id, body) };
   }
 
   @Roles('reviewer', 'admin')

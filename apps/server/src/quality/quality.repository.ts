@@ -1,12 +1,37 @@
 import { Inject, Injectable } from '@nestjs/common';
-import type { QualityFilter, QualityListItem, QualityListQuery, QualityMetricsRow, QualityTargetId, QualityUnit, Rhythm, Outcome, CodeCategory } from '@steadyhand/shared';
-import { and, asc, desc, eq, gt, gte, inArray, isNull, like, lt, sql, type SQL } from 'drizzle-orm';
+import type {
+  CodeCategory,
+  FollowUpListQuery,
+  Outcome,
+  QualityFilter,
+  QualityListItem,
+  QualityListQuery,
+  QualityMetricsRow,
+  QualityTargetId,
+  QualityUnit,
+  Rhythm,
+  SurvivalToDischarge,
+} from '@steadyhand/shared';
+import { and, asc, desc, eq, gt, gte, inArray, isNull, like, lt, or, sql, type SQL } from 'drizzle-orm';
 import { DB } from '../db/database.module.js';
 import type { Db } from '../db/database.js';
-import { codeMetrics, codes, qualityReviews, settings, signatures, units, users } from '../db/schema/index.js';
+import { codeFollowUps, codeMetrics, codes, qualityReviews, settings, signatures, units, users } from '../db/schema/index.js';
 import { parseTargetsMissed, type CodeMetricsRow } from './quality-metrics.js';
 
 export type QualityReviewRow = typeof qualityReviews.$inferSelect;
+export type FollowUpRow = typeof codeFollowUps.$inferSelect;
+
+/** A code waiting for its follow-up, as the list reads it. */
+export interface FollowUpWaitingRow {
+  codeId: string;
+  arrestAt: string;
+  unitId: string | null;
+  unitName: string | null;
+  location: string | null;
+  outcome: string | null;
+  anyRosc: boolean;
+  followUp: FollowUpRow | null;
+}
 
 /** The day after a YYYY-MM-DD date, so `to` covers its whole (UTC) day. */
 function nextDay(date: string): string {
@@ -130,7 +155,10 @@ export class QualityRepository {
         unitId: codeMetrics.unitId,
         unitName: units.name,
         firstRhythm: codeMetrics.firstRhythm,
+        witnessedOrMonitored: codeMetrics.witnessedOrMonitored,
         anyRosc: codeMetrics.anyRosc,
+        survivalToDischarge: codeFollowUps.survivalToDischarge,
+        followUpComplete: codeFollowUps.complete,
         durationSeconds: codeMetrics.durationSeconds,
         toCompressionsSeconds: codeMetrics.toCompressionsSeconds,
         toFirstShockSeconds: codeMetrics.toFirstShockSeconds,
@@ -140,10 +168,72 @@ export class QualityRepository {
       })
       .from(codeMetrics)
       .leftJoin(units, eq(units.id, codeMetrics.unitId))
+      .leftJoin(codeFollowUps, eq(codeFollowUps.codeId, codeMetrics.codeId))
       .where(qualityConditions(f))
       .orderBy(asc(codeMetrics.arrestAt))
       .all()
-      .map((r) => ({ ...r, firstRhythm: r.firstRhythm as Rhythm | null }));
+      .map((r) => ({
+        ...r,
+        firstRhythm: r.firstRhythm as Rhythm | null,
+        survivalToDischarge: (r.survivalToDischarge as SurvivalToDischarge | null) ?? null,
+        followUpComplete: r.followUpComplete ?? false,
+      }));
+  }
+
+  // --- follow-up ---------------------------------------------------------------------------------
+
+  followUp(codeId: string): FollowUpRow | undefined {
+    return this.db.select().from(codeFollowUps).where(eq(codeFollowUps.codeId, codeId)).get();
+  }
+
+  saveFollowUp(row: FollowUpRow): void {
+    const { codeId: _codeId, ...set } = row;
+    this.db.insert(codeFollowUps).values(row).onConflictDoUpdate({ target: codeFollowUps.codeId, set }).run();
+  }
+
+  /** Ended codes whose follow-up is not complete, oldest arrest first (one unit, or all). */
+  followUpWaiting(q: FollowUpListQuery): { rows: FollowUpWaitingRow[]; total: number } {
+    const where = and(
+      or(isNull(codeFollowUps.codeId), eq(codeFollowUps.complete, false)),
+      q.unitId ? eq(codeMetrics.unitId, q.unitId) : undefined,
+    );
+    const base = () => this.db.select({ n: sql<number>`count(*)` }).from(codeMetrics).leftJoin(codeFollowUps, eq(codeFollowUps.codeId, codeMetrics.codeId));
+    const total = base().where(where).get()?.n ?? 0;
+    const rows = this.db
+      .select({ m: codeMetrics, location: codes.location, unitName: units.name, f: codeFollowUps })
+      .from(codeMetrics)
+      .innerJoin(codes, eq(codes.id, codeMetrics.codeId))
+      .leftJoin(units, eq(units.id, codeMetrics.unitId))
+      .leftJoin(codeFollowUps, eq(codeFollowUps.codeId, codeMetrics.codeId))
+      .where(where)
+      .orderBy(asc(codeMetrics.arrestAt), asc(codeMetrics.codeId))
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize)
+      .all();
+    return {
+      total,
+      rows: rows.map(({ m, location, unitName, f }) => ({
+        codeId: m.codeId,
+        arrestAt: m.arrestAt,
+        unitId: m.unitId,
+        unitName: unitName ?? null,
+        location,
+        outcome: m.outcome,
+        anyRosc: m.anyRosc,
+        followUp: f ?? null,
+      })),
+    };
+  }
+
+  /** The follow-up rows of several codes (for the CSV export). */
+  followUpsOf(codeIds: readonly string[]): Map<string, FollowUpRow> {
+    if (codeIds.length === 0) return new Map();
+    const rows: FollowUpRow[] = [];
+    // SQLite limits bound parameters: a year of codes goes in slices.
+    for (let i = 0; i < codeIds.length; i += 500) {
+      rows.push(...this.db.select().from(codeFollowUps).where(inArray(codeFollowUps.codeId, codeIds.slice(i, i + 500))).all());
+    }
+    return new Map(rows.map((r) => [r.codeId, r]));
   }
 
   /** Ids of the matching codes in arrest order, for the CSV export. */

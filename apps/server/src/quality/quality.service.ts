@@ -21,6 +21,7 @@ import type { SessionUser } from '../auth/session-user.js';
 import type { PasswordAttempt } from '../auth/login-throttle.service.js';
 import { PasswordCheckService } from '../auth/password-check.service.js';
 import { CodesService } from '../codes/codes.service.js';
+import { followUpFromRow, FollowUpService } from './follow-up.service.js';
 import { QualityRepository } from './quality.repository.js';
 
 @Injectable()
@@ -30,6 +31,7 @@ export class QualityService {
     @Inject(CodesService) private readonly codes: CodesService,
     @Inject(PasswordCheckService) private readonly passwords: PasswordCheckService,
     @Inject(AuditService) private readonly audit: AuditService,
+    @Inject(FollowUpService) private readonly followUps: FollowUpService,
   ) {}
 
   list(query: QualityListQuery): QualityListResponse {
@@ -44,6 +46,7 @@ export class QualityService {
   detail(id: string): QualityCodeDetail {
     const code = this.codes.get(id);
     const summary = summarize(this.codes.timelineOf(code, this.codes.entriesOf(id)));
+    const utstein = this.codes.utsteinOf(id);
     return {
       code: {
         id: code.id,
@@ -57,9 +60,11 @@ export class QualityService {
         outcome: code.outcome,
       },
       summary,
-      targets: evaluateTargets(summary),
+      targets: evaluateTargets(summary, utstein),
       review: this.reviewOf(id),
       signatures: this.repo.signaturesOf(id).map((s) => ({ printedName: s.printedName, meaning: s.meaning, signedAt: s.signedAt })),
+      utstein,
+      followUp: this.followUps.of(id),
     };
   }
 
@@ -122,11 +127,22 @@ export class QualityService {
     const ids = this.repo.codeIds(filter);
     const facility = this.repo.facility();
     const units = new Map(this.repo.units().map((u) => [u.id, u.name]));
+    const followUps = this.repo.followUpsOf(ids);
     const rows = ids.flatMap((id) => {
       const code = this.codes.find(id);
       if (!code) return [];
       const summary = summarize(this.codes.timelineOf(code, this.codes.entriesOf(id)));
-      return [utsteinRow({ code, summary, facility, unitName: code.unitId ? (units.get(code.unitId) ?? null) : null })];
+      const followUp = followUps.get(id);
+      return [
+        utsteinRow({
+          code,
+          summary,
+          facility,
+          unitName: code.unitId ? (units.get(code.unitId) ?? null) : null,
+          utstein: this.codes.utsteinOf(id),
+          followUp: followUp ? followUpFromRow(followUp) : null,
+        }),
+      ];
     });
     this.audit.record({ action: 'quality.export-utstein', userId: user.id, username: user.username, detail: { filter, codes: rows.length } });
     return utsteinCsv(rows);
@@ -141,6 +157,8 @@ export class QualityService {
       code,
       timeline,
       summary: summarize(timeline),
+      utstein: this.codes.utsteinOf(id),
+      followUp: this.followUps.of(id),
       signatures,
       facility: this.repo.facility(),
       unitName: this.repo.unitName(code.unitId),

@@ -16,10 +16,14 @@ export function recordDigest(record: CanonicalRecord): string {
  */
 export function recordAsOf(record: CanonicalRecord, at: string): CanonicalRecord {
   const t = Date.parse(at);
+  const { detailAddenda, ...rest } = record;
+  // Registry-details addenda only ever follow the first signature; the key is there only when some are.
+  const addenda = (detailAddenda ?? []).filter((a) => Date.parse(a.recordedAt) <= t);
   return {
-    ...record,
+    ...rest,
     entries: record.entries.filter((e) => Date.parse(e.recordedAt) <= t),
     attachments: record.attachments.filter((a) => Date.parse(a.uploadedAt) <= t),
+    ...(addenda.length ? { detailAddenda: addenda } : {}),
   };
 }
 

@@ -7,6 +7,9 @@ import {
   SIGNATURE_MEANING_TEXT,
   SIGNATURE_MEANINGS,
   SUMMARY_DEFINITIONS,
+  UTSTEIN_FIELD_LABELS,
+  UTSTEIN_GROUPS,
+  utsteinValueText,
   type ClinicalEntry,
   type CodeSummary,
   type EffectiveEntry,
@@ -17,6 +20,8 @@ import {
   type RecordSignature,
   type RecordStatus,
   type SummaryMetric,
+  type UtsteinDetails,
+  type UtsteinField,
 } from '@steadyhand/shared';
 import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interfaces.js';
 import type { CanonicalRecord } from './record-canonical.js';
@@ -223,6 +228,36 @@ function factRows(rows: [string, string][]): Content {
     layout: 'noBorders',
     margin: [0, 0, 0, 2],
   };
+}
+
+const TIME_FIELDS: readonly UtsteinField[] = ['teamArrivedAt', 'padsOnAt', 'deathPronouncedAt'];
+
+/**
+ * The registry details as signed (or, unsigned, as they stand), then each change made after the
+ * first signature with who made it, when, and the value before.
+ */
+function registryDetails(details: UtsteinDetails, addenda: NonNullable<CanonicalRecord['detailAddenda']>, dateTime: (iso: string) => string): Content[] {
+  const text = (field: UtsteinField, d: UtsteinDetails) => {
+    const v = d[field];
+    if (v === undefined) return 'not entered';
+    return TIME_FIELDS.includes(field) && typeof v === 'string' ? dateTime(v) : (utsteinValueText(field, d) ?? 'not entered');
+  };
+  const rows = UTSTEIN_GROUPS.flatMap((g) => g.fields.filter((f) => details[f] !== undefined).map((f): [string, string] => [UTSTEIN_FIELD_LABELS[f], text(f, details)]));
+  const out: Content[] = [rows.length ? factRows(rows) : { text: 'None entered.', color: GREY }];
+  if (addenda.length) {
+    out.push({ text: 'Changed after signing (addenda):', bold: true, margin: [0, 4, 0, 2] });
+    out.push({
+      ul: addenda.flatMap((a) =>
+        Object.entries(a.changes).map(([field, change]) => {
+          const f = field as UtsteinField;
+          const was = change.from === null ? 'not entered' : text(f, { [f]: change.from });
+          const now = change.to === null ? 'cleared' : text(f, { [f]: change.to });
+          return `${UTSTEIN_FIELD_LABELS[f]}: ${now} (was: ${was}). ${a.userName}, ${dateTime(a.recordedAt)}.`;
+        }),
+      ),
+    });
+  }
+  return out;
 }
 
 export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
@@ -510,6 +545,8 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
       : { text: 'Not recorded.', color: GREY },
     heading('Debrief notes'),
     { text: code.debriefNotes ?? 'None recorded.', color: code.debriefNotes ? undefined : GREY },
+    heading('Registry details'),
+    ...registryDetails(code.utstein ?? {}, record.detailAddenda ?? [], (iso) => clock.dateTime(iso)),
     heading('Timeline'),
     {
       text: `${counts.entries} entries (${counts.voided} voided, ${counts.amended} amended, ${addenda} added after signing). Corrections never remove anything: the original stays visible beside the correction, with who made it, when and why.`,

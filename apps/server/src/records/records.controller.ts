@@ -15,6 +15,8 @@ import {
   type ReviewDetailsRequest,
   type SignRecordRequest,
   type StoredEntry,
+  type UtsteinAddendum,
+  type UtsteinDetails,
   type VerifyRecordResult,
 } from '@steadyhand/shared';
 import type { Response } from 'express';
@@ -34,13 +36,14 @@ const MAX_VERIFY_BYTES = 20 * 1024 * 1024;
 export class RecordsController {
   constructor(@Inject(RecordsService) private readonly records: RecordsService) {}
 
-  @Roles(RECORDER, LEADER)
+  /** Reviewers and admins change the registry details (`utstein`) only: checked in the service. */
+  @Roles(RECORDER, LEADER, 'reviewer', 'admin')
   @Patch('codes/:id/review')
   review(
     @CurrentUser() user: SessionUser,
     @Param('id') id: string,
     @Body(new ZodValidationPipe(reviewDetailsSchema)) body: ReviewDetailsRequest,
-  ): { code: RecordCode } {
+  ): { code: RecordCode; utstein: UtsteinDetails; utsteinAddenda: UtsteinAddendum[] } {
     return this.records.updateReview(user, id, body);
   }
 

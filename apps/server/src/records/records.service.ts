@@ -1,5 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import {
+  BadRequestException,
   ConflictException,
   ForbiddenException,
   Inject,
@@ -9,8 +10,12 @@ import {
   type OnModuleInit,
 } from '@nestjs/common';
 import {
+  applyUtsteinPatch,
   hasAnyRole,
   liveEntries,
+  utsteinChanges,
+  utsteinProblems,
+  WRITER_ROLES,
   SIGNATURE_MEANING_ROLE,
   SIGNATURE_MEANING_TEXT,
   summarize,
@@ -23,6 +28,8 @@ import {
   type ReviewDetailsRequest,
   type SignRecordRequest,
   type StoredEntry,
+  type UtsteinAddendum,
+  type UtsteinDetails,
   type VerifyRecordRequest,
   type VerifyRecordResult,
 } from '@steadyhand/shared';
@@ -31,6 +38,7 @@ import type { SessionUser } from '../auth/session-user.js';
 import { CodesRepository } from '../codes/codes.repository.js';
 import { verifyEntryChain } from '../codes/entry-chain.js';
 import { EntriesService } from '../codes/entries.service.js';
+import { EntryEvents } from '../codes/entry-events.js';
 import { RecordSealService } from '../codes/record-seal.service.js';
 import { AttachmentsService } from '../attachments/attachments.service.js';
 import { APP_CONFIG } from '../config/config.module.js';
@@ -65,11 +73,11 @@ import { SignaturesRepository, type SignatureRow } from './signatures.repository
  * version, a category switch) join the canonical record only when set, so a record signed before
  * they existed keeps its digest and its signatures keep verifying.
  */
-const LATER_CODE_FIELDS = ['weightSource', 'protocolVersion', 'categoryChangedAt'] as const;
+const LATER_CODE_FIELDS = ['weightSource', 'protocolVersion', 'categoryChangedAt', 'utstein'] as const;
 
 function withoutUnsetLaterFields(code: RecordCode): RecordCode {
   const copy: Record<string, unknown> = { ...code };
-  for (const k of LATER_CODE_FIELDS) if (copy[k] === null) delete copy[k];
+  for (const k of LATER_CODE_FIELDS) if (copy[k] === null || copy[k] === undefined) delete copy[k];
   return copy as RecordCode;
 }
 
@@ -87,6 +95,7 @@ export class RecordsService implements OnModuleInit {
     @Inject(PasswordCheckService) private readonly passwords: PasswordCheckService,
     @Inject(AuditService) private readonly audit: AuditService,
     @Inject(RecordSealService) private readonly seals: RecordSealService,
+    @Inject(EntryEvents) private readonly events: EntryEvents,
     @Optional() @Inject(AttachmentsService) private readonly attachments?: AttachmentsService,
     // Optional, so the records feature works (and its tests run) in an app without the mail module.
     @Optional() @Inject(MailService) private readonly mail?: MailService,
@@ -129,11 +138,13 @@ export class RecordsService implements OnModuleInit {
     const code = this.codes.findCode(id);
     const details = this.codes.reviewDetails(id);
     if (!code || !details) throw new NotFoundException(`No code with id ${id}`);
-    return withoutUnsetLaterFields({ ...code, team: details.team ?? [], debriefNotes: details.debriefNotes });
+    const utstein = this.codes.utsteinOf(id);
+    return withoutUnsetLaterFields({ ...code, team: details.team ?? [], debriefNotes: details.debriefNotes, ...(utstein ? { utstein } : {}) });
   }
 
   canonicalRecord(id: string): CanonicalRecord {
     const code = this.recordCode(id);
+    const addenda = this.codes.detailAddendaOf(id);
     return {
       format: RECORD_FORMAT,
       // As first signed, once signed: a rename of the facility since changes nothing.
@@ -141,6 +152,8 @@ export class RecordsService implements OnModuleInit {
       code,
       entries: this.codes.entriesOf(id),
       attachments: this.signatures.attachmentsOf(id),
+      // Only when there are some, so records without them keep the shape (and digest) they were signed with.
+      ...(addenda.length ? { detailAddenda: addenda } : {}),
     };
   }
 
@@ -234,6 +247,7 @@ export class RecordsService implements OnModuleInit {
       signatures,
       status: this.statusOf(rows),
       people: Object.fromEntries(this.peopleOf(record, rows)),
+      qualityReviewedAt: this.signatures.qualitySignedOffAt(id),
     };
   }
 
@@ -253,10 +267,28 @@ export class RecordsService implements OnModuleInit {
 
   // --- review details ------------------------------------------------------------------------
 
-  updateReview(user: SessionUser, id: string, changes: ReviewDetailsRequest): { code: RecordCode } {
+  /**
+   * Review details. Recorders and leaders change any of them until the first signature; the
+   * registry details (`utstein`) may also be changed by a reviewer or admin, and after the first
+   * signature are kept as addenda (the signed details stay as signed), until the quality review
+   * is signed off.
+   */
+  updateReview(user: SessionUser, id: string, changes: ReviewDetailsRequest): { code: RecordCode; utstein: UtsteinDetails; utsteinAddenda: UtsteinAddendum[] } {
     const before = this.recordCode(id);
-    if (this.codes.isSigned(id)) throw new ConflictException('This record is signed: add an addendum');
-    const { outcome, ...details } = changes;
+    const { utstein: patch, ...rest } = changes;
+    const writer = hasAnyRole(user.roles, [...WRITER_ROLES]);
+    if (!writer && Object.keys(rest).length > 0) {
+      throw new ForbiddenException(`A reviewer changes only the registry details (utstein); ${Object.keys(rest).join(', ')} are completed by the recorder or the team leader`);
+    }
+    if (!writer && before.status !== 'ended') throw new ConflictException('The code has not ended: its registry details are completed after it ends');
+    const signed = this.codes.isSigned(id);
+    if (signed && Object.keys(rest).length > 0) throw new ConflictException('This record is signed: add an addendum');
+    if (patch) {
+      const closedAt = this.signatures.qualitySignedOffAt(id);
+      if (closedAt) throw new ConflictException(`The quality review of this code was signed off on ${closedAt}: its registry details are closed`);
+    }
+
+    const { outcome, ...details } = rest;
     if (outcome !== undefined && outcome !== before.outcome) this.confirmOutcome(user, id, outcome);
     if (Object.keys(details).length > 0) {
       this.codes.updateCode(id, {
@@ -266,12 +298,46 @@ export class RecordsService implements OnModuleInit {
         ...(details.location !== undefined ? { location: details.location } : {}),
       });
     }
+    const utsteinChanged = patch ? this.changeUtstein(user, id, patch, signed) : {};
     const after = this.recordCode(id);
-    const changed = Object.fromEntries(
-      Object.keys(changes).map((k) => [k, { from: before[k as keyof RecordCode] ?? null, to: after[k as keyof RecordCode] ?? null }]),
+    const changed: Record<string, unknown> = Object.fromEntries(
+      Object.keys(rest).map((k) => [k, { from: before[k as keyof RecordCode] ?? null, to: after[k as keyof RecordCode] ?? null }]),
     );
-    this.audit.record({ action: 'code.review-changed', userId: user.id, username: user.username, codeId: id, detail: changed });
-    return { code: after };
+    if (Object.keys(utsteinChanged).length > 0) {
+      changed.utstein = utsteinChanged;
+      if (signed) changed.addendum = true;
+    }
+    if (Object.keys(changed).length > 0) {
+      this.audit.record({ action: 'code.review-changed', userId: user.id, username: user.username, codeId: id, detail: changed });
+    }
+    // The quality targets read witnessed and monitored: the code's metrics follow.
+    if (Object.keys(utsteinChanged).length > 0) this.events.emitCodesChanged(id);
+    const state = this.codesService.utsteinState(id);
+    return { code: after, utstein: state.now, utsteinAddenda: state.addenda };
+  }
+
+  /** Checks the details as they would read, then stores them (unsigned) or an addendum (signed). */
+  private changeUtstein(user: SessionUser, id: string, patch: NonNullable<ReviewDetailsRequest['utstein']>, signed: boolean): UtsteinAddendum['changes'] {
+    const code = this.codesService.get(id);
+    const state = this.codesService.utsteinState(id);
+    const next = applyUtsteinPatch(state.now, patch);
+    const problems = utsteinProblems(next, code);
+    if (problems.length > 0) {
+      throw new BadRequestException({
+        statusCode: 400,
+        error: 'Bad Request',
+        message: problems.map((p) => `${p.path}: ${p.message}`).join('; '),
+        issues: problems,
+      });
+    }
+    const changes = utsteinChanges(state.now, next);
+    if (Object.keys(changes).length === 0) return changes;
+    if (!signed) {
+      this.codes.setUtstein(id, next);
+    } else {
+      this.codes.addDetailAddendum(id, { id: randomUUID(), recordedAt: new Date().toISOString(), userId: user.id, userName: user.displayName, changes });
+    }
+    return changes;
   }
 
   /**

@@ -4,7 +4,7 @@ import type { SignatureMeaning } from '@steadyhand/shared';
 import { and, asc, eq, inArray, like } from 'drizzle-orm';
 import { DB } from '../db/database.module.js';
 import type { Db } from '../db/database.js';
-import { attachments, auditEvents, settings, signatures } from '../db/schema/index.js';
+import { attachments, auditEvents, qualityReviews, settings, signatures } from '../db/schema/index.js';
 import type { RecordAttachment } from './record-canonical.js';
 
 export type SignatureRow = typeof signatures.$inferSelect;
@@ -76,6 +76,14 @@ export class SignaturesRepository {
       .from(auditEvents)
       .where(and(eq(auditEvents.action, 'record.printed'), eq(auditEvents.codeId, codeId), like(auditEvents.detail, `%"fileSha256":"${fileSha256}"%`)))
       .get();
+  }
+
+  /**
+   * When the quality review of a code was signed off, or null. Read here rather than through the
+   * quality module, which reads records' tables itself (no module cycle).
+   */
+  qualitySignedOffAt(codeId: string): string | null {
+    return this.db.select({ at: qualityReviews.reviewedAt }).from(qualityReviews).where(eq(qualityReviews.codeId, codeId)).get()?.at ?? null;
   }
 
   meaningsOf(codeId: string): SignatureMeaning[] {

@@ -95,7 +95,8 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
   'POST /api/codes/:id/reconciliation/addenda': { allowed: ['pharmacist'], body: { text: 'matrix' } },
   'GET /api/codes/:id/reconciliation/restock.csv': { allowed: ['pharmacist'] },
   'GET /api/codes/:id/reconciliation/restock.pdf': { allowed: ['pharmacist'] },
-  'PATCH /api/codes/:id/review': { allowed: ['recorder', 'leader'], body: { debriefNotes: 'Matrix debrief' } },
+  // Reviewers and admins change only the registry details, and only of an ended code: the running fixture answers them 409.
+  'PATCH /api/codes/:id/review': { allowed: ['recorder', 'leader', 'reviewer', 'admin'], body: { utstein: { witnessed: 'unknown' } } },
   // The fixture code is still running: signing and addenda answer 409 to those allowed.
   'POST /api/codes/:id/signatures': { allowed: ['recorder', 'leader'], body: { meaning: 'recorded-by', password: TEST_PASSWORD } },
   'POST /api/codes/:id/addenda': { allowed: ['recorder', 'leader'], body: () => makeEntry({ kind: 'note', text: 'matrix addendum' }) },
@@ -113,4 +114,6 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
   'PUT /api/quality/codes/:id/review': { allowed: ['reviewer', 'admin'], body: { notes: 'Matrix note' } },
   'POST /api/quality/codes/:id/review/sign': { allowed: ['reviewer', 'admin'], body: { password: TEST_PASSWORD } },
   'GET /api/quality/codes/:id/fhir': { allowed: ['reviewer', 'admin'] },
+  'PUT /api/quality/codes/:id/follow-up': { allowed: ['reviewer', 'admin'], body: { survivalToDischarge: 'unknown' } },
+  'GET /api/quality/follow-up': { allowed: ['reviewer', 'admin'] },
 };

@@ -95,6 +95,10 @@ export const routes: RouteObject[] = [
             path: paths.quality.code.path,
             lazy: () => import('./routes/quality/code'),
           },
+          {
+            path: paths.quality.followUp.path,
+            lazy: () => import('./routes/quality/follow-up'),
+          },
         ],
       },
       {

@@ -117,6 +117,11 @@ export const paths = {
       path: '/quality/stats',
       getHref: () => '/quality/stats',
     },
+    /** Ended codes still waiting for their follow-up after discharge. */
+    followUp: {
+      path: '/quality/follow-up',
+      getHref: () => '/quality/follow-up',
+    },
     code: {
       path: '/quality/codes/:codeId',
       getHref: (codeId: string) => `/quality/codes/${encodeURIComponent(codeId)}`,

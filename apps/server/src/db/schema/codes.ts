@@ -32,8 +32,35 @@ export const codes = sqliteTable(
      * facility leaves the signed record (and its signatures) as they were. Null until signed.
      */
     facilityName: text('facility_name'),
+    /**
+     * The registry details (Utstein) completed at review, as they stood at the first signature;
+     * later changes are rows of `utstein_addenda`. Null while none were entered.
+     */
+    utstein: text('utstein', { mode: 'json' }).$type<Record<string, unknown>>(),
   },
   (t) => [index('codes_status_idx').on(t.status, t.arrestAt)],
+);
+
+/**
+ * Changes to a signed record's registry details, each with its old and new values, who and when.
+ * Append-only (triggers); part of the canonical record and counted by its seal.
+ */
+export const utsteinAddenda = sqliteTable(
+  'utstein_addenda',
+  {
+    id: text('id').primaryKey(),
+    codeId: text('code_id')
+      .notNull()
+      .references(() => codes.id),
+    recordedAt: text('recorded_at').notNull(),
+    userId: text('user_id')
+      .notNull()
+      .references(() => users.id),
+    userName: text('user_name').notNull(),
+    /** `{field: {from, to}}`, null for a value not entered. */
+    changes: text('changes', { mode: 'json' }).notNull().$type<Record<string, { from: unknown; to: unknown }>>(),
+  },
+  (t) => [index('utstein_addenda_code_idx').on(t.codeId, t.recordedAt)],
 );
 
 /**
@@ -108,6 +135,8 @@ export const recordSeals = sqliteTable('record_seals', {
   head: text('head').notNull(),
   signatures: integer('signatures').notNull(),
   attachments: text('attachments').notNull(),
+  /** SHA-256 of the registry-details addenda; null while there are none (the MAC leaves it out then). */
+  detailAddenda: text('detail_addenda'),
   mac: text('mac').notNull(),
   sealedAt: text('sealed_at').notNull(),
 });

@@ -28,6 +28,8 @@ export const codeMetrics = sqliteTable(
     unitId: text('unit_id'),
     category: text('category').notNull(),
     firstRhythm: text('first_rhythm'),
+    /** From the registry details: witnessed or monitored (1), neither (0), not known (null). */
+    witnessedOrMonitored: integer('witnessed_or_monitored', { mode: 'boolean' }),
     outcome: text('outcome'),
     anyRosc: integer('any_rosc', { mode: 'boolean' }).notNull(),
     // Null: the code ended before 20 min of ROSC could be observed.
@@ -51,3 +53,34 @@ export const codeMetrics = sqliteTable(
   ],
 );
 
+
+/**
+ * The reviewer's follow-up of one code after the event: each answer with its date, and who
+ * entered it and when. `complete`: nothing the code waits for is missing (shared followUpMissing).
+ */
+export const codeFollowUps = sqliteTable(
+  'code_follow_ups',
+  {
+    codeId: text('code_id')
+      .primaryKey()
+      .references(() => codes.id),
+    survivalToDischarge: text('survival_to_discharge'),
+    survivalToDischargeDate: text('survival_to_discharge_date'),
+    survivalToDischargeBy: text('survival_to_discharge_by').references(() => users.id),
+    survivalToDischargeByName: text('survival_to_discharge_by_name'),
+    survivalToDischargeAt: text('survival_to_discharge_at'),
+    status30Days: text('status_30_days'),
+    status30DaysDate: text('status_30_days_date'),
+    status30DaysBy: text('status_30_days_by').references(() => users.id),
+    status30DaysByName: text('status_30_days_by_name'),
+    status30DaysAt: text('status_30_days_at'),
+    neurologicalOutcome: text('neurological_outcome'),
+    neurologicalOutcomeDate: text('neurological_outcome_date'),
+    neurologicalOutcomeBy: text('neurological_outcome_by').references(() => users.id),
+    neurologicalOutcomeByName: text('neurological_outcome_by_name'),
+    neurologicalOutcomeAt: text('neurological_outcome_at'),
+    complete: integer('complete', { mode: 'boolean' }).notNull().default(false),
+    updatedAt: text('updated_at').notNull(),
+  },
+  (t) => [index('code_follow_ups_complete_idx').on(t.complete)],
+);

@@ -90,9 +90,14 @@ export function Component() {
                     <RouterLink to={paths.quality.list.getHref()}>{role === 'admin' ? 'Quality review' : 'Codes to review'}</RouterLink>
                   </Button>
                   {role === 'reviewer' ? (
-                    <Button asChild variant="outline" size="lg">
-                      <RouterLink to={paths.quality.stats.getHref()}>Charts by month and unit</RouterLink>
-                    </Button>
+                    <>
+                      <Button asChild variant="outline" size="lg">
+                        <RouterLink to={paths.quality.followUp.getHref()}>Follow-up to enter</RouterLink>
+                      </Button>
+                      <Button asChild variant="outline" size="lg">
+                        <RouterLink to={paths.quality.stats.getHref()}>Charts by month and unit</RouterLink>
+                      </Button>
+                    </>
                   ) : null}
                 </Wrap>
               ) : null}

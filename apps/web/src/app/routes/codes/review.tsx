@@ -1,5 +1,5 @@
 import { Alert, Box, Button, Heading, HStack, SimpleGrid, Stack, Text } from '@chakra-ui/react';
-import { WRITER_ROLES } from '@steadyhand/shared';
+import { effectiveUtstein, hasAnyRole, WRITER_ROLES } from '@steadyhand/shared';
 import { useState } from 'react';
 import { Link as RouterLink, useParams } from 'react-router';
 import { SummaryFacts } from '../../../components/summary-facts';
@@ -20,6 +20,7 @@ import {
 } from '../../../features/records/components/record-timeline';
 import { ReviewDetailsForm } from '../../../features/records/components/review-details-form';
 import { SignaturesPanel } from '../../../features/records/components/signatures-panel';
+import { UtsteinDetailsForm } from '../../../features/records/components/utstein-details-form';
 import { formatDateTime } from '../../../lib/format';
 import { useCodeProtocol } from '../../../lib/protocol';
 import { ReviewReplay } from './review-replay';
@@ -113,6 +114,21 @@ function CodeReview({ codeId }: { codeId: string }) {
         <ReviewDetailsForm code={code} editable={writer && ended && status === 'draft'} />
         <AttachmentsPanel codeId={code.id} canUpload={writer} />
       </SimpleGrid>
+
+      <UtsteinDetailsForm
+        codeId={code.id}
+        arrestAt={code.arrestAt}
+        details={effectiveUtstein(code.utstein, record.detailAddenda)}
+        addenda={record.detailAddenda ?? []}
+        signed={status !== 'draft'}
+        closedAt={view.data.qualityReviewedAt}
+        editable={ended && view.data.qualityReviewedAt === null && (writer || hasAnyRole(user.roles, ['reviewer', 'admin']))}
+        readOnlyReason={
+          !ended
+            ? 'Completed after the code ends.'
+            : 'Completed by the recorder, the team leader or a quality reviewer.'
+        }
+      />
 
       <SignaturesPanel view={view.data} user={user} />
       <RecordIntegrity view={view.data} />

@@ -7,7 +7,9 @@ import { PageSpinner } from '../../../components/ui/page-status';
 import { PageTitle } from '../../../components/ui/page-title';
 import { paths } from '../../../config/paths';
 import { useQualityCode } from '../../../features/quality/api/get-quality-code';
+import { FollowUpPanel } from '../../../features/quality/components/follow-up-panel';
 import { QualityGate } from '../../../features/quality/components/quality-gate';
+import { RegistrySummary } from '../../../features/quality/components/registry-summary';
 import { ReviewPanel } from '../../../features/quality/components/review-panel';
 import { TargetList } from '../../../features/quality/components/target-list';
 import { formatDateTime } from '../../../features/quality/components/words';
@@ -16,7 +18,7 @@ function QualityCode({ codeId }: { codeId: string }) {
   const query = useQualityCode(codeId);
   if (query.isPending) return <PageSpinner label="Loading the code…" />;
   if (query.isError) return <ErrorMessage title="This code cannot be shown" message={query.error.message} />;
-  const { code, summary, targets, review, signatures } = query.data;
+  const { code, summary, targets, review, signatures, utstein, followUp } = query.data;
   const where = [code.unitName, code.location].filter(Boolean).join(', ') || 'Location not recorded';
 
   return (
@@ -46,6 +48,11 @@ function QualityCode({ codeId }: { codeId: string }) {
         </Heading>
         <TargetList targets={targets} />
       </Box>
+
+      <SimpleGrid columns={{ base: 1, lg: 2 }} gap="8">
+        <RegistrySummary details={utstein} recordHref={paths.codes.review.getHref(code.id)} />
+        <FollowUpPanel key={code.id} codeId={code.id} arrestAt={code.arrestAt} followUp={followUp} open={code.status === 'ended'} />
+      </SimpleGrid>
 
       <SimpleGrid columns={{ base: 1, lg: 2 }} gap="8">
         <ReviewPanel key={code.id} codeId={code.id} review={review} reviewable={code.status === 'ended'} />

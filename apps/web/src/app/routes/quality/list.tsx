@@ -52,6 +52,11 @@ function QualityList() {
           <Button asChild variant="outline" size="lg">
             <RouterLink to={paths.quality.stats.getHref()}>Charts by month and unit</RouterLink>
           </Button>
+          <Button asChild variant="outline" size="lg">
+            <RouterLink to={paths.quality.followUp.getHref()} data-testid="quality-follow-up-link">
+              Follow-up to enter
+            </RouterLink>
+          </Button>
           <Button asChild colorPalette="brand" size="lg">
             {/* A plain link: the browser downloads the file with the session cookie. */}
             <a href={`/api/quality/export/utstein.csv${toQueryString(filterParams)}`} download data-testid="quality-export-csv">

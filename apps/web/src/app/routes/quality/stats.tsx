@@ -26,7 +26,7 @@ function QualityStatsPage() {
           <Heading as="h1" textStyle={{ base: '3xl', md: '4xl' }} data-testid="quality-stats-heading">
             Across codes
           </Heading>
-          <Text color="fg.muted">Medians, interquartile ranges and targets met, by month and by unit, for the committee&apos;s review.</Text>
+          <Text color="fg.muted">ROSC and survival rates with 95% confidence intervals (Wilson score interval), medians, interquartile ranges and targets met, by month and by unit, for the committee&apos;s review.</Text>
         </Stack>
         <Button asChild variant="outline" size="lg">
           <RouterLink to={paths.quality.list.getHref()}>← The list of codes</RouterLink>

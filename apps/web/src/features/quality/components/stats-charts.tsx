@@ -2,6 +2,7 @@ import { Box, Heading, SimpleGrid, Stack, Table, Text } from '@chakra-ui/react';
 import { QUALITY_INTERVAL_LABELS, QUALITY_TARGET_IDS, type QualityGroupStats, type QualityStats, type QuantileSummary } from '@steadyhand/shared';
 import type { ReactNode } from 'react';
 import { Bar, BarChart, CartesianGrid, Legend, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
+import { OutcomeRates } from './outcome-rates';
 import { formatPercent, formatSeconds, TARGET_WORDS } from './words';
 
 // Our palette (theme/system.ts), dark enough on white; each series also has its own name in the legend and table.
@@ -183,12 +184,13 @@ function CompressionFractionChart({ stats }: { stats: QualityStats }) {
 export function StatsCharts({ stats }: { stats: QualityStats }) {
   return (
     <Stack gap="6">
+      <OutcomeRates stats={stats} />
       <TargetShareChart groups={stats.byMonth} id="targets-month" title="Targets met, by month" />
       <IntervalChart groups={stats.byMonth} />
       <CompressionFractionChart stats={stats} />
       <TargetShareChart groups={stats.byUnit} id="targets-unit" title="Targets met, by unit" />
       <Text textStyle="sm" color="fg.muted">
-        {stats.quantileMethod} Months are calendar months in UTC.
+        {stats.quantileMethod} {stats.rateMethod} Months are calendar months in UTC.
       </Text>
     </Stack>
   );
