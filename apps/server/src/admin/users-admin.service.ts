@@ -5,8 +5,7 @@ import { SessionDirectoryService } from '../auth/session-directory.service.js';
 import { SessionService } from '../auth/session.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { TotpService } from '../auth/totp.service.js';
-import { UsersRepository, type UserRow } from '../users/users.repository.js';
-import { UsersService } from '../users/users.service.js';
+import { UsersService, type UserRow } from '../users/users.service.js';
 
 const LAST_ADMIN = 'This is the last enabled administrator: give someone else the administrator role first';
 
@@ -15,7 +14,6 @@ const LAST_ADMIN = 'This is the last enabled administrator: give someone else th
 export class UsersAdminService {
   constructor(
     @Inject(UsersService) private readonly users: UsersService,
-    @Inject(UsersRepository) private readonly repo: UsersRepository,
     @Inject(SessionService) private readonly sessions: SessionService,
     @Inject(SessionDirectoryService) private readonly directory: SessionDirectoryService,
     @Inject(TotpService) private readonly totp: TotpService,
@@ -25,7 +23,7 @@ export class UsersAdminService {
   list(): AdminUser[] {
     const open = new Map<string, number>();
     for (const s of this.directory.list('')) open.set(s.userId, (open.get(s.userId) ?? 0) + 1);
-    return this.repo.list().map((u) => this.toAdminUser(u, open.get(u.id) ?? 0));
+    return this.users.list().map((u) => this.toAdminUser(u, open.get(u.id) ?? 0));
   }
 
   private toAdminUser(u: UserRow, activeSessions = 0): AdminUser {
@@ -43,7 +41,7 @@ export class UsersAdminService {
   }
 
   private get(id: string): UserRow {
-    const u = this.repo.findById(id);
+    const u = this.users.findById(id);
     if (!u) throw new NotFoundException('No such person');
     return u;
   }
@@ -60,7 +58,7 @@ export class UsersAdminService {
 
   rename(actor: SessionUser, id: string, displayName: string): AdminUser {
     const before = this.get(id);
-    this.repo.update(id, { displayName });
+    this.users.update(id, { displayName });
     this.record(actor, 'user.renamed', before, { from: before.displayName, to: displayName });
     return this.toAdminUser(this.get(id));
   }
@@ -68,10 +66,10 @@ export class UsersAdminService {
   setRoles(actor: SessionUser, id: string, roles: Role[]): AdminUser {
     const before = this.get(id);
     const next = [...new Set(roles)].sort();
-    if (before.roles.includes('admin') && !next.includes('admin') && !before.disabledAt && this.repo.countEnabledAdmins(id) === 0) {
+    if (before.roles.includes('admin') && !next.includes('admin') && !before.disabledAt && this.users.countEnabledAdmins(id) === 0) {
       throw new ConflictException(LAST_ADMIN);
     }
-    this.repo.setRoles(id, next);
+    this.users.setRoles(id, next);
     this.record(actor, 'user.roles-changed', before, { from: before.roles, to: next });
     return this.toAdminUser(this.get(id));
   }
@@ -90,8 +88,8 @@ export class UsersAdminService {
     const target = this.get(id);
     if (target.id === actor.id) throw new ConflictException('You cannot disable your own account');
     if (!target.disabledAt) {
-      if (target.roles.includes('admin') && this.repo.countEnabledAdmins(id) === 0) throw new ConflictException(LAST_ADMIN);
-      this.repo.update(id, { disabledAt: new Date().toISOString() });
+      if (target.roles.includes('admin') && this.users.countEnabledAdmins(id) === 0) throw new ConflictException(LAST_ADMIN);
+      this.users.update(id, { disabledAt: new Date().toISOString() });
       this.sessions.userDisabled(id);
       this.record(actor, 'user.disabled', target);
     }
@@ -101,7 +99,7 @@ export class UsersAdminService {
   enable(actor: SessionUser, id: string): AdminUser {
     const target = this.get(id);
     if (target.disabledAt) {
-      this.repo.update(id, { disabledAt: null });
+      this.users.update(id, { disabledAt: null });
       this.record(actor, 'user.enabled', target);
     }
     return this.toAdminUser(this.get(id));

@@ -1,6 +1,6 @@
 import { ForbiddenException, Inject, Injectable } from '@nestjs/common';
 import { AuditService } from '../audit/audit.service.js';
-import { UsersRepository } from '../users/users.repository.js';
+import { UsersService } from '../users/users.service.js';
 import { LoginThrottleService, type PasswordAttempt } from './login-throttle.service.js';
 import { verifyPassword } from './password.js';
 import type { SessionUser } from './session-user.js';
@@ -14,7 +14,7 @@ import type { SessionUser } from './session-user.js';
 @Injectable()
 export class PasswordCheckService {
   constructor(
-    @Inject(UsersRepository) private readonly users: UsersRepository,
+    @Inject(UsersService) private readonly users: UsersService,
     @Inject(LoginThrottleService) private readonly throttle: LoginThrottleService,
     @Inject(AuditService) private readonly audit: AuditService,
   ) {}

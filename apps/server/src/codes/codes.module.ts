@@ -16,6 +16,6 @@ import { RecordSealService } from './record-seal.service.js';
   imports: [AuthModule, UsersModule, ProtocolModule],
   controllers: [CodesController],
   providers: [CodesRepository, CodesService, EntriesService, EntryChainService, EntryEvents, LiveGateway, SealKey, RecordSealService],
-  exports: [CodesService, CodesRepository, EntriesService, EntryEvents, LiveGateway, RecordSealService],
+  exports: [CodesService, EntriesService, EntryEvents, LiveGateway, RecordSealService],
 })
 export class CodesModule {}

@@ -25,6 +25,7 @@ import { AuditService } from '../audit/audit.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { ProtocolService } from '../protocol/protocol.service.js';
 import { CodesRepository } from './codes.repository.js';
+import type { EntryLink } from './entry-chain.js';
 import { EntryEvents } from './entry-events.js';
 
 /** How far ahead of the server's clock an arrest time may be set (a device clock a little fast). */
@@ -85,8 +86,8 @@ export class CodesService {
     return { code, created: true };
   }
 
-  list(status?: CodeStatus): Code[] {
-    return this.repo.listCodes(status);
+  list(status?: CodeStatus, limit?: number): Code[] {
+    return this.repo.listCodes(status, limit);
   }
 
   find(id: string): Code | undefined {
@@ -116,6 +117,51 @@ export class CodesService {
   /** The registry details as they read now. */
   utsteinOf(id: string): UtsteinDetails {
     return this.utsteinState(id).now;
+  }
+
+  // --- what the signed record reads and keeps beside a code (records module) -------------------
+
+  /** The registry details as stored on the code (as at the first signature, once signed); unset when never given. */
+  storedUtsteinOf(id: string): UtsteinDetails | undefined {
+    return this.repo.utsteinOf(id);
+  }
+
+  /** Changes to the registry details after the first signature, oldest first. */
+  detailAddendaOf(id: string): UtsteinAddendum[] {
+    return this.repo.detailAddendaOf(id);
+  }
+
+  /** Stores the registry details of an unsigned record. */
+  setUtstein(id: string, details: UtsteinDetails): void {
+    this.repo.setUtstein(id, details);
+  }
+
+  /** Adds a registry-details addendum to a signed record (moves its seal in the same write). */
+  addDetailAddendum(id: string, addendum: UtsteinAddendum): void {
+    this.repo.addDetailAddendum(id, addendum);
+  }
+
+  /** Team and debrief notes, and the place and patient, as completed at review. */
+  updateReviewFields(id: string, changes: Partial<Pick<Parameters<CodesRepository['updateCode']>[1], 'team' | 'debriefNotes' | 'patient' | 'location'>>): Code {
+    return this.repo.updateCode(id, changes);
+  }
+
+  isSigned(id: string): boolean {
+    return this.repo.isSigned(id);
+  }
+
+  /** Keeps the facility name a record was first signed under; later calls change nothing. */
+  freezeFacility(id: string, name: string): void {
+    this.repo.freezeFacility(id, name);
+  }
+
+  frozenFacility(id: string): string | null {
+    return this.repo.frozenFacility(id);
+  }
+
+  /** The code's hash-chain links in position order. */
+  linksOf(id: string): EntryLink[] {
+    return this.repo.linksOf(id);
   }
 
   get(id: string): Code {

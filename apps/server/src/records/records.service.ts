@@ -35,7 +35,6 @@ import {
 } from '@steadyhand/shared';
 import { AuditService } from '../audit/audit.service.js';
 import type { SessionUser } from '../auth/session-user.js';
-import { CodesRepository } from '../codes/codes.repository.js';
 import { verifyEntryChain } from '../codes/entry-chain.js';
 import { EntriesService } from '../codes/entries.service.js';
 import { EntryEvents } from '../codes/entry-events.js';
@@ -88,10 +87,9 @@ export class RecordsService implements OnModuleInit {
   constructor(
     @Inject(APP_CONFIG) private readonly config: AppConfig,
     @Inject(DB) private readonly db: Db,
-    @Inject(CodesRepository) private readonly codes: CodesRepository,
     @Inject(EntriesService) private readonly entries: EntriesService,
     @Inject(SignaturesRepository) private readonly signatures: SignaturesRepository,
-    @Inject(CodesService) private readonly codesService: CodesService,
+    @Inject(CodesService) private readonly codes: CodesService,
     @Inject(PasswordCheckService) private readonly passwords: PasswordCheckService,
     @Inject(AuditService) private readonly audit: AuditService,
     @Inject(RecordSealService) private readonly seals: RecordSealService,
@@ -135,10 +133,10 @@ export class RecordsService implements OnModuleInit {
   // --- the record ----------------------------------------------------------------------------
 
   private recordCode(id: string): RecordCode {
-    const code = this.codes.findCode(id);
+    const code = this.codes.find(id);
     const details = this.codes.reviewDetails(id);
     if (!code || !details) throw new NotFoundException(`No code with id ${id}`);
-    const utstein = this.codes.utsteinOf(id);
+    const utstein = this.codes.storedUtsteinOf(id);
     return withoutUnsetLaterFields({ ...code, team: details.team ?? [], debriefNotes: details.debriefNotes, ...(utstein ? { utstein } : {}) });
   }
 
@@ -253,7 +251,7 @@ export class RecordsService implements OnModuleInit {
 
   /** Ended codes, newest first, each with how far its record is signed (for "records to sign"). */
   list(limit = 200): RecordListItem[] {
-    const codes = this.codes.listCodes('ended', limit);
+    const codes = this.codes.list('ended', limit);
     const signaturesByCode = this.signatures.ofCodes(codes.map((c) => c.id));
     return codes.map((code) => {
       const rows = signaturesByCode.get(code.id) ?? [];
@@ -291,7 +289,7 @@ export class RecordsService implements OnModuleInit {
     const { outcome, ...details } = rest;
     if (outcome !== undefined && outcome !== before.outcome) this.confirmOutcome(user, id, outcome);
     if (Object.keys(details).length > 0) {
-      this.codes.updateCode(id, {
+      this.codes.updateReviewFields(id, {
         ...(details.team !== undefined ? { team: details.team } : {}),
         ...(details.debriefNotes !== undefined ? { debriefNotes: details.debriefNotes || null } : {}),
         ...(details.patient !== undefined ? { patient: details.patient } : {}),
@@ -312,14 +310,14 @@ export class RecordsService implements OnModuleInit {
     }
     // The quality targets read witnessed and monitored: the code's metrics follow.
     if (Object.keys(utsteinChanged).length > 0) this.events.emitCodesChanged(id);
-    const state = this.codesService.utsteinState(id);
+    const state = this.codes.utsteinState(id);
     return { code: after, utstein: state.now, utsteinAddenda: state.addenda };
   }
 
   /** Checks the details as they would read, then stores them (unsigned) or an addendum (signed). */
   private changeUtstein(user: SessionUser, id: string, patch: NonNullable<ReviewDetailsRequest['utstein']>, signed: boolean): UtsteinAddendum['changes'] {
-    const code = this.codesService.get(id);
-    const state = this.codesService.utsteinState(id);
+    const code = this.codes.get(id);
+    const state = this.codes.utsteinState(id);
     const next = applyUtsteinPatch(state.now, patch);
     const problems = utsteinProblems(next, code);
     if (problems.length > 0) {
@@ -441,7 +439,7 @@ export class RecordsService implements OnModuleInit {
     const view = await this.view(id);
     const { record, digest } = view;
     // The code's own protocol version: an admin's later change never alters its record.
-    const timeline = this.codesService.timelineOf(record.code, record.entries);
+    const timeline = this.codes.timelineOf(record.code, record.entries);
     const settings = timeline.protocol;
     const summary = summarize(timeline);
     const generatedAt = this.signingTime(Date.now());
@@ -546,7 +544,7 @@ export class RecordsService implements OnModuleInit {
   }
 
   private async verifyAgainst(recordId: string, digest: string): Promise<VerifyRecordResult> {
-    if (!this.codes.findCode(recordId)) return { valid: false, reason: 'No record with this id on this server.' };
+    if (!this.codes.find(recordId)) return { valid: false, reason: 'No record with this id on this server.' };
     let view: RecordView;
     try {
       view = await this.view(recordId);

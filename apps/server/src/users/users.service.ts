@@ -7,6 +7,8 @@ import type { SessionUser } from '../auth/session-user.js';
 import { AuditService } from '../audit/audit.service.js';
 import { UsersRepository, type UserRow } from './users.repository.js';
 
+export type { UserRow };
+
 export function toPublicUser(u: Pick<UserRow, 'id' | 'username' | 'displayName' | 'roles'>): PublicUser {
   return { id: u.id, username: u.username, displayName: u.displayName, roles: u.roles };
 }
@@ -49,6 +51,25 @@ export class UsersService {
     );
     this.audit.record({ action: 'user.created', userId: actor.userId, username: actor.username, detail: { id, username, roles: input.roles } });
     return { id, username, displayName: input.displayName.trim(), roles: [...new Set(input.roles)].sort() };
+  }
+
+  /** Everyone, for the admin's people screen. */
+  list(): UserRow[] {
+    return this.repo.list();
+  }
+
+  /** Name, password hash, must-change flag or disabled time (the admin's and the person's own changes). */
+  update(id: string, values: Parameters<UsersRepository['update']>[1]): void {
+    this.repo.update(id, values);
+  }
+
+  setRoles(id: string, roles: Role[]): void {
+    this.repo.setRoles(id, roles);
+  }
+
+  /** Enabled admins, leaving one person out: the last admin cannot be disabled or demoted. */
+  countEnabledAdmins(exceptUserId?: string): number {
+    return this.repo.countEnabledAdmins(exceptUserId);
   }
 
   count(): number {

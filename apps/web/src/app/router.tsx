@@ -4,7 +4,7 @@ import { createBrowserRouter, type RouteObject } from 'react-router';
 import { RouterProvider } from 'react-router/dom';
 import { PageSpinner } from '../components/ui/page-status';
 import { paths } from '../config/paths';
-import { meQueryKey } from '../features/auth/api/get-me';
+import { meQueryKey } from '../lib/session/get-me';
 import { setUnauthorizedHandler } from '../lib/api-client';
 import { RouteErrorBoundary } from './routes/route-error';
 

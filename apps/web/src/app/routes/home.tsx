@@ -4,7 +4,7 @@ import { Link as RouterLink } from 'react-router';
 import { HomePanel } from '../../components/ui/home-panel';
 import { PageTitle } from '../../components/ui/page-title';
 import { paths } from '../../config/paths';
-import { useCurrentUser } from '../../features/auth/hooks/use-current-user';
+import { useCurrentUser } from '../../lib/session/use-current-user';
 import { LiveCodesPanel } from '../../features/codes/components/live-codes-panel';
 import { RecordsPanel } from '../../features/records/components/records-panel';
 

@@ -5,7 +5,7 @@ import { paths } from '../../config/paths';
 import { AccountGate } from '../../features/auth/components/account-gate';
 import { RequireSignedIn } from '../../features/auth/components/require-signed-in';
 import { SignOutButton, SignOutNotice } from '../../features/auth/components/sign-out-control';
-import { useCurrentUser } from '../../features/auth/hooks/use-current-user';
+import { useCurrentUser } from '../../lib/session/use-current-user';
 import { useSignOut } from '../../features/auth/hooks/use-sign-out';
 
 /** The signed-in area: a guard, then the app frame around whichever page is open. */

@@ -2,8 +2,8 @@ import { Box } from '@chakra-ui/react';
 import { Outlet } from 'react-router';
 import { AccountGate } from '../../features/auth/components/account-gate';
 import { RequireSignedIn } from '../../features/auth/components/require-signed-in';
-import { useMe } from '../../features/auth/api/get-me';
-import { CurrentUserContext } from '../../features/auth/hooks/use-current-user';
+import { useMe } from '../../lib/session/get-me';
+import { CurrentUserContext } from '../../lib/session/use-current-user';
 
 /**
  * The frame of the wall screens: signed in (any role may watch), dark, no app header. Once the

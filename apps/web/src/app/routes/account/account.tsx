@@ -8,7 +8,7 @@ import { PageTitle } from '../../../components/ui/page-title';
 import { SessionTable } from '../../../components/ui/session-table';
 import { paths } from '../../../config/paths';
 import { useEndMySession, useMySessions, useTotpStatus } from '../../../features/account/api/account';
-import { useCurrentUser } from '../../../features/auth/hooks/use-current-user';
+import { useCurrentUser } from '../../../lib/session/use-current-user';
 
 /** My account: where I am signed in, my password, my second factor. */
 export function Component() {

@@ -2,7 +2,7 @@ import { Alert, Heading, Stack, Text } from '@chakra-ui/react';
 import { useNavigate, useSearchParams } from 'react-router';
 import { PageTitle } from '../../../components/ui/page-title';
 import { ChangePasswordForm } from '../../../features/account/components/change-password-form';
-import { useCurrentUser } from '../../../features/auth/hooks/use-current-user';
+import { useCurrentUser } from '../../../lib/session/use-current-user';
 import { safeNextPath } from '../../../lib/next-path';
 
 export function Component() {

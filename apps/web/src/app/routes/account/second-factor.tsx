@@ -5,9 +5,9 @@ import { useNavigate, useSearchParams } from 'react-router';
 import { PageTitle } from '../../../components/ui/page-title';
 import { paths } from '../../../config/paths';
 import { SecondFactorSetup } from '../../../features/account/components/second-factor-setup';
-import { meQueryKey } from '../../../features/auth/api/get-me';
+import { meQueryKey } from '../../../lib/session/get-me';
 import { SecondFactorForm } from '../../../features/auth/components/second-factor-form';
-import { useCurrentUser } from '../../../features/auth/hooks/use-current-user';
+import { useCurrentUser } from '../../../lib/session/use-current-user';
 import { safeNextPath } from '../../../lib/next-path';
 
 /** Set up the authenticator, or (already set up) confirm it for this session before the admin pages. */

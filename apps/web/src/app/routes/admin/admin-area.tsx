@@ -2,7 +2,7 @@ import { Alert, Box, Heading, HStack, Link, Stack, Text } from '@chakra-ui/react
 import { Navigate, NavLink, Outlet, useLocation } from 'react-router';
 import { PageTitle } from '../../../components/ui/page-title';
 import { paths } from '../../../config/paths';
-import { useCurrentUser } from '../../../features/auth/hooks/use-current-user';
+import { useCurrentUser } from '../../../lib/session/use-current-user';
 
 const SECTIONS = [
   { to: paths.admin.people.getHref(), label: 'People' },

@@ -8,7 +8,7 @@ import { PageTitle } from '../../../components/ui/page-title';
 import { useAdminUsers } from '../../../features/admin/api/admin';
 import { AddPersonForm } from '../../../features/admin/components/add-person-form';
 import { PersonEditor } from '../../../features/admin/components/person-editor';
-import { useCurrentUser } from '../../../features/auth/hooks/use-current-user';
+import { useCurrentUser } from '../../../lib/session/use-current-user';
 
 export function Component() {
   const me = useCurrentUser();

@@ -2,7 +2,7 @@ import { Alert, Button, Heading, Stack, Text } from '@chakra-ui/react';
 import { Link as RouterLink } from 'react-router';
 import { PageTitle } from '../../../components/ui/page-title';
 import { paths } from '../../../config/paths';
-import { useCurrentUser } from '../../../features/auth/hooks/use-current-user';
+import { useCurrentUser } from '../../../lib/session/use-current-user';
 import { ProtocolSettingsEditor } from '../../../features/protocol/components/protocol-settings-editor';
 
 /** Protocol settings: admins only (the server refuses everyone else too; this says why up front). */

@@ -4,7 +4,7 @@ import { useNavigate, useParams } from 'react-router';
 import { PageProblem, PageSpinner } from '../../../components/ui/page-status';
 import { PageTitle } from '../../../components/ui/page-title';
 import { paths } from '../../../config/paths';
-import { useCurrentUser } from '../../../features/auth/hooks/use-current-user';
+import { useCurrentUser } from '../../../lib/session/use-current-user';
 import { RecorderPad } from '../../../features/recorder/components/recorder-pad';
 import { isApiError } from '../../../lib/api-client';
 import { useLiveCode } from '../../../lib/live/use-live-code';

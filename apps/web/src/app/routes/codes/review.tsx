@@ -7,7 +7,7 @@ import { ErrorMessage } from '../../../components/ui/error-message';
 import { PageSpinner } from '../../../components/ui/page-status';
 import { PageTitle } from '../../../components/ui/page-title';
 import { paths } from '../../../config/paths';
-import { useCurrentUser } from '../../../features/auth/hooks/use-current-user';
+import { useCurrentUser } from '../../../lib/session/use-current-user';
 import { useCodeSummary, useRecordView } from '../../../features/records/api/records-api';
 import { AttachmentsPanel } from '../../../features/records/components/attachments-panel';
 import { CorrectionDialog } from '../../../features/records/components/correction-dialog';

@@ -2,7 +2,7 @@ import { Heading, Stack, Text } from '@chakra-ui/react';
 import { ErrorMessage } from '../../../components/ui/error-message';
 import { PageSpinner } from '../../../components/ui/page-status';
 import { PageTitle } from '../../../components/ui/page-title';
-import { useCurrentUser } from '../../../features/auth/hooks/use-current-user';
+import { useCurrentUser } from '../../../lib/session/use-current-user';
 import { useTrays } from '../../../features/pharmacy/api/pharmacy-api';
 import { TrayTemplates } from '../../../features/pharmacy/components/tray-templates';
 

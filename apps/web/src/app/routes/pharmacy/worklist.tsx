@@ -4,7 +4,7 @@ import { ErrorMessage } from '../../../components/ui/error-message';
 import { PageSpinner } from '../../../components/ui/page-status';
 import { PageTitle } from '../../../components/ui/page-title';
 import { paths } from '../../../config/paths';
-import { useCurrentUser } from '../../../features/auth/hooks/use-current-user';
+import { useCurrentUser } from '../../../lib/session/use-current-user';
 import { useTrays, useWorklist } from '../../../features/pharmacy/api/pharmacy-api';
 import { CartRestockSection } from '../../../features/pharmacy/components/cart-restock';
 import { Worklist } from '../../../features/pharmacy/components/worklist';

@@ -1,7 +1,7 @@
 import type { ChangePasswordRequest, SessionInfo, TotpEnrolment, TotpStatus } from '@steadyhand/shared';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
-import { meQueryKey } from '../../auth/api/get-me';
+import { meQueryKey } from '../../../lib/session/get-me';
 
 // The server's answers are our own contract (shared types); they are not re-validated here.
 const mySessionsKey = ['account', 'sessions'] as const;

@@ -1,7 +1,7 @@
 import { loginResponseSchema, type LoginRequest, type LoginResponse, type PublicUser, type SecondFactorRequest } from '@steadyhand/shared';
 import { useMutation, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client';
-import { meQueryKey } from './get-me';
+import { meQueryKey } from '../../../lib/session/get-me';
 
 export async function login(input: LoginRequest): Promise<LoginResponse> {
   return loginResponseSchema.parse(await api.post('/api/auth/login', input));

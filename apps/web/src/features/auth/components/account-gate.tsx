@@ -1,7 +1,7 @@
 import type { ReactNode } from 'react';
 import { Navigate, useLocation } from 'react-router';
 import { paths } from '../../../config/paths';
-import { useCurrentUser } from '../hooks/use-current-user';
+import { useCurrentUser } from '../../../lib/session/use-current-user';
 
 /**
  * What must happen before the page: a reset password is replaced first; an admin page needs the

@@ -3,8 +3,8 @@ import type { ReactNode } from 'react';
 import { Navigate, useLocation } from 'react-router';
 import { PageProblem, PageSpinner } from '../../../components/ui/page-status';
 import { paths } from '../../../config/paths';
-import { useMe } from '../api/get-me';
-import { CurrentUserContext } from '../hooks/use-current-user';
+import { useMe } from '../../../lib/session/get-me';
+import { CurrentUserContext } from '../../../lib/session/use-current-user';
 
 /** The signed-in area's gate: no user, no page; the sign-in page brings the person back here. */
 export function RequireSignedIn({ children }: { children: ReactNode }) {

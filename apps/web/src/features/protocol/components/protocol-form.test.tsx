@@ -3,7 +3,7 @@ import { fireEvent, screen, waitFor } from '@testing-library/react';
 import { createMemoryRouter, RouterProvider } from 'react-router';
 import { describe, expect, it } from 'vitest';
 import { Component as ProtocolPage } from '../../../app/routes/admin/protocol';
-import { CurrentUserContext } from '../../auth/hooks/use-current-user';
+import { CurrentUserContext } from '../../../lib/session/use-current-user';
 import { headerOf, mockFetch } from '../../../testing/fetch-mock';
 import { renderWithProviders } from '../../../testing/render';
 import { ProtocolForm, PROTOCOL_CAUTION } from './protocol-form';

@@ -3,7 +3,7 @@ import { hasAnyRole } from '@steadyhand/shared';
 import type { ReactNode } from 'react';
 import { Link as RouterLink } from 'react-router';
 import { paths } from '../../../config/paths';
-import { useCurrentUser } from '../../auth/hooks/use-current-user';
+import { useCurrentUser } from '../../../lib/session/use-current-user';
 
 /** Reviewers and admins only (the server refuses everyone else too; this says why up front). */
 export function QualityGate({ children }: { children: ReactNode }) {

@@ -1,7 +1,7 @@
 import { meUserSchema, type MeUser } from '@steadyhand/shared';
 import { queryOptions, useQuery } from '@tanstack/react-query';
 import { z } from 'zod';
-import { api, isApiError } from '../../../lib/api-client';
+import { api, isApiError } from '../api-client';
 
 const meResponseSchema = z.object({ user: meUserSchema });
 
