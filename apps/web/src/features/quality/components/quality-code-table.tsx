@@ -17,7 +17,7 @@ const COLUMNS: { field: QualitySortField; label: string; numeric?: boolean }[] =
   { field: 'firstRhythm', label: 'First rhythm' },
   { field: 'toFirstShockSeconds', label: 'To shock', numeric: true },
   { field: 'toFirstEpinephrineSeconds', label: 'To epinephrine', numeric: true },
-  { field: 'compressionFraction', label: 'Compression fraction', numeric: true },
+  { field: 'compressionFraction', label: 'Compression fraction (from taps)', numeric: true },
   { field: 'outcome', label: 'Outcome' },
   { field: 'targetsMissed', label: 'Targets missed' },
 ];

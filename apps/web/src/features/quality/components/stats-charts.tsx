@@ -1,5 +1,5 @@
 import { Box, Heading, SimpleGrid, Stack, Table, Text } from '@chakra-ui/react';
-import { QUALITY_INTERVAL_LABELS, QUALITY_TARGET_IDS, type QualityGroupStats, type QualityStats, type QuantileSummary } from '@steadyhand/shared';
+import { QUALITY_INTERVAL_LABELS, QUALITY_TARGET_IDS, TAPS_NOT_SENSOR, type QualityGroupStats, type QualityStats, type QuantileSummary } from '@steadyhand/shared';
 import type { ReactNode } from 'react';
 import { Bar, BarChart, CartesianGrid, Legend, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
 import { OutcomeRates } from './outcome-rates';
@@ -147,7 +147,7 @@ function CompressionFractionChart({ stats }: { stats: QualityStats }) {
     <ChartWithTable
       id="ccf"
       title="Compression fraction: how many codes in each band"
-      note={`Median (interquartile range) over all codes: ${iqr(stats.overall.compressionFraction, (v) => formatPercent(v))}. Target: at least 80%.`}
+      note={`Median (interquartile range) over all codes: ${iqr(stats.overall.compressionFraction, (v) => formatPercent(v))}. Target: at least 80%. ${TAPS_NOT_SENSOR}`}
       chart={
         <ResponsiveContainer width="100%" height={300}>
           <BarChart data={stats.compressionFractionBins}>
@@ -163,7 +163,7 @@ function CompressionFractionChart({ stats }: { stats: QualityStats }) {
         <Table.Root size="sm" data-testid="quality-table-ccf">
           <Table.Header>
             <Table.Row>
-              <Table.ColumnHeader>Compression fraction</Table.ColumnHeader>
+              <Table.ColumnHeader>Compression fraction (from taps)</Table.ColumnHeader>
               <Table.ColumnHeader textAlign="end">Codes</Table.ColumnHeader>
             </Table.Row>
           </Table.Header>
