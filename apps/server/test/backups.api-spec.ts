@@ -1,4 +1,3 @@
-import { spawn } from 'node:child_process';
 import { copyFileSync, existsSync, readdirSync } from 'node:fs';
 import path from 'node:path';
 import Database from 'better-sqlite3';
@@ -8,7 +7,7 @@ import { backupUploadsDir, checkCopy } from '../src/backups/backup-copy.js';
 import { BackupsService } from '../src/backups/backups.service.js';
 import { makeEntry } from './support/entries.js';
 import { tinyPng } from './support/sample-files.js';
-import { SERVER_MAIN, serverProcess, signInHttp, startCodeHttp, type HttpSession } from './support/server-process.js';
+import { runBuiltCommand, serverProcess, signInHttp, startCodeHttp, type HttpSession } from './support/server-process.js';
 import { addUser, signIn, startTestApp, tempDataDir, type SignedInAgent, type TestApp } from './support/test-app.js';
 
 /** Breaks one entry of a copy behind the append-only triggers' back, as a damaged disk or a hand edit would. */
@@ -79,21 +78,6 @@ describe('scheduled backups inside the server, their checks and the admin list',
   });
 });
 
-/** Runs a built command with the server's data folder; resolves with its exit code and output. */
-function command(script: string, args: string[], dataDir: string): Promise<{ code: number | null; stdout: string; stderr: string }> {
-  return new Promise((resolve) => {
-    const child = spawn(process.execPath, [path.join(path.dirname(SERVER_MAIN), 'cli', script), ...args], {
-      env: { PATH: process.env.PATH ?? '', DATA_DIR: dataDir, LOG_LEVEL: 'silent' },
-      cwd: dataDir,
-    });
-    let stdout = '';
-    let stderr = '';
-    child.stdout.on('data', (d: Buffer) => (stdout += d.toString()));
-    child.stderr.on('data', (d: Buffer) => (stderr += d.toString()));
-    child.on('exit', (code) => resolve({ code, stdout, stderr }));
-  });
-}
-
 describe('db:backup and db:restore against the built server', () => {
   const server = serverProcess();
   let maren: HttpSession;
@@ -125,7 +109,7 @@ describe('db:backup and db:restore against the built server', () => {
     await addEntry(codeId, makeEntry({ kind: 'cpr', action: 'start' }));
     await addEntry(codeId, makeEntry({ kind: 'note', text: 'before the copy' }));
 
-    const backup = await command('db-backup.js', [], server.dataDir);
+    const backup = await runBuiltCommand('db-backup.js', [], server.dataDir);
     expect(backup.code, backup.stderr).toBe(0);
     const lines = backup.stdout.trim().split('\n');
     const file = lines[lines.length - 1]!;
@@ -134,7 +118,7 @@ describe('db:backup and db:restore against the built server', () => {
     expect(backup.stdout).toMatch(/Check: passed: integrity ok, \d+ codes and \d+ entries, every chain verifies/);
 
     await addEntry(codeId, makeEntry({ kind: 'rosc' }));
-    const refused = await command('db-restore.js', [file], server.dataDir);
+    const refused = await runBuiltCommand('db-restore.js', [file], server.dataDir);
     expect(refused.code).toBe(1);
     expect(refused.stderr).toMatch(/open in another process.*Nothing was changed/);
     expect(countEntries(codeId)).toBe(3);
@@ -143,12 +127,12 @@ describe('db:backup and db:restore against the built server', () => {
     const damaged = path.join(server.dataDir, 'damaged.db');
     copyFileSync(file, damaged);
     tamper(damaged, codeId);
-    const refusedDamaged = await command('db-restore.js', [damaged], server.dataDir);
+    const refusedDamaged = await runBuiltCommand('db-restore.js', [damaged], server.dataDir);
     expect(refusedDamaged.code).toBe(1);
     expect(refusedDamaged.stderr).toMatch(/fails its check; nothing was changed[\s\S]*1 broken chains \(code /);
 
     // By name in BACKUP_DIR, as the admin page lists it.
-    const restored = await command('db-restore.js', [path.basename(file)], server.dataDir);
+    const restored = await runBuiltCommand('db-restore.js', [path.basename(file)], server.dataDir);
     expect(restored.code, restored.stderr).toBe(0);
     const kept = /kept as (.+)\n/.exec(restored.stdout)?.[1];
     expect(kept && existsSync(kept)).toBe(true);

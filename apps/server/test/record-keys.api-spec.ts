@@ -1,4 +1,3 @@
-import { spawn } from 'node:child_process';
 import { readdirSync, readFileSync, renameSync, rmSync } from 'node:fs';
 import path from 'node:path';
 import type { RecordPublicKeys, RecordView } from '@steadyhand/shared';
@@ -7,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { RECORD_PUBLIC_KEYS_FILE } from '../src/records/record-keys.js';
 import { makeEntry } from './support/entries.js';
 import { pdfText, recordPdf } from './support/pdf.js';
-import { SERVER_MAIN } from './support/server-process.js';
+import { runBuiltCommand } from './support/server-process.js';
 import {
   addUser,
   signIn,
@@ -16,27 +15,6 @@ import {
   type SignedInAgent,
   type TestApp,
 } from './support/test-app.js';
-
-/** The built `pnpm keys:rotate` (dist/cli/keys-rotate.js) on the test's data folder; its exit code and output. */
-function keysRotate(
-  dataDir: string,
-): Promise<{ code: number | null; stdout: string; stderr: string }> {
-  return new Promise((resolve) => {
-    const child = spawn(
-      process.execPath,
-      [path.join(path.dirname(SERVER_MAIN), 'cli', 'keys-rotate.js')],
-      {
-        env: { PATH: process.env.PATH ?? '', DATA_DIR: dataDir, LOG_LEVEL: 'silent' },
-        cwd: dataDir,
-      },
-    );
-    let stdout = '';
-    let stderr = '';
-    child.stdout.on('data', (d: Buffer) => (stdout += d.toString()));
-    child.stderr.on('data', (d: Buffer) => (stderr += d.toString()));
-    child.on('exit', (code) => resolve({ code, stdout, stderr }));
-  });
-}
 
 describe('rotating the record signing key', () => {
   const dataDir = tempDataDir();
@@ -131,7 +109,7 @@ describe('rotating the record signing key', () => {
 
     // While the server runs, the command refuses and changes nothing.
     const listBefore = readFileSync(path.join(dataDir, 'keys', RECORD_PUBLIC_KEYS_FILE), 'utf8');
-    const refused = await keysRotate(dataDir);
+    const refused = await runBuiltCommand('keys-rotate.js', [], dataDir);
     expect(refused.code).toBe(1);
     expect(refused.stderr).toMatch(
       /open in another process.*Stop the server first.*Nothing was changed/,
@@ -151,7 +129,7 @@ describe('rotating the record signing key', () => {
     db.close();
     rmSync(path.join(dataDir, 'keys', RECORD_PUBLIC_KEYS_FILE));
 
-    const rotated = await keysRotate(dataDir);
+    const rotated = await runBuiltCommand('keys-rotate.js', [], dataDir);
     expect(rotated.code, rotated.stderr).toBe(0);
     expect(rotated.stdout).toContain(
       `Retired key ${firstKey!.keyId} (signed from installation to `,

@@ -9,6 +9,16 @@ export function describeZodError(error: z.ZodError): string {
     .join('; ');
 }
 
+/** A 400 for problems found after the schema (rules across fields): each named by its path. */
+export function fieldProblemsError(problems: readonly { path: string; message: string }[]): BadRequestException {
+  return new BadRequestException({
+    statusCode: 400,
+    error: 'Bad Request',
+    message: problems.map((p) => `${p.path}: ${p.message}`).join('; '),
+    issues: problems,
+  });
+}
+
 /** Validates a request part with a schema from the shared package; bad input is a 400 that says what is wrong. */
 export class ZodValidationPipe<T extends z.ZodType> implements PipeTransform<unknown, z.output<T>> {
   constructor(private readonly schema: T) {}

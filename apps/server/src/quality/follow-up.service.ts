@@ -1,4 +1,4 @@
-import { BadRequestException, ConflictException, Inject, Injectable } from '@nestjs/common';
+import { ConflictException, Inject, Injectable } from '@nestjs/common';
 import {
   daysSince,
   FOLLOW_UP_ITEMS,
@@ -15,6 +15,7 @@ import {
 import { AuditService } from '../audit/audit.service.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { CodesService } from '../codes/codes.service.js';
+import { fieldProblemsError } from '../common/zod-validation.pipe.js';
 import { QualityRepository, type FollowUpRow } from './quality.repository.js';
 
 type Item = (typeof FOLLOW_UP_ITEMS)[number];
@@ -123,14 +124,7 @@ export class FollowUpService {
     }
     const today = new Date().toISOString().slice(0, 10);
     const problems = followUpProblems(next, code, today);
-    if (problems.length > 0) {
-      throw new BadRequestException({
-        statusCode: 400,
-        error: 'Bad Request',
-        message: problems.map((p) => `${p.path}: ${p.message}`).join('; '),
-        issues: problems,
-      });
-    }
+    if (problems.length > 0) throw fieldProblemsError(problems);
 
     const now = new Date().toISOString();
     const stored: FollowUpRow = {

@@ -1,6 +1,5 @@
 import { randomUUID } from 'node:crypto';
 import {
-  BadRequestException,
   ConflictException,
   ForbiddenException,
   Inject,
@@ -46,6 +45,7 @@ import { MailService } from '../mail/mail.service.js';
 import type { PasswordAttempt } from '../auth/login-throttle.service.js';
 import { PasswordCheckService } from '../auth/password-check.service.js';
 import { CodesService } from '../codes/codes.service.js';
+import { fieldProblemsError } from '../common/zod-validation.pipe.js';
 import { DB } from '../db/database.module.js';
 import type { Db } from '../db/database.js';
 import { inArray } from 'drizzle-orm';
@@ -320,14 +320,7 @@ export class RecordsService implements OnModuleInit {
     const state = this.codes.utsteinState(id);
     const next = applyUtsteinPatch(state.now, patch);
     const problems = utsteinProblems(next, code);
-    if (problems.length > 0) {
-      throw new BadRequestException({
-        statusCode: 400,
-        error: 'Bad Request',
-        message: problems.map((p) => `${p.path}: ${p.message}`).join('; '),
-        issues: problems,
-      });
-    }
+    if (problems.length > 0) throw fieldProblemsError(problems);
     const changes = utsteinChanges(state.now, next);
     if (Object.keys(changes).length === 0) return changes;
     if (!signed) {

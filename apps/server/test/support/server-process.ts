@@ -229,3 +229,18 @@ export async function startCodeHttp(baseUrl: string, session: HttpSession, body:
   if (res.status !== 201) throw new Error(`starting a code failed: ${res.status} ${await res.text()}`);
   return ((await res.json()) as { code: { id: string } }).code.id;
 }
+
+/** Runs one of the built commands (dist/cli/<script>) on a data folder; resolves with its exit code and output. */
+export function runBuiltCommand(script: string, args: string[], dataDir: string): Promise<{ code: number | null; stdout: string; stderr: string }> {
+  return new Promise((resolve) => {
+    const child = spawn(process.execPath, [path.join(path.dirname(SERVER_MAIN), 'cli', script), ...args], {
+      env: { PATH: process.env.PATH ?? '', DATA_DIR: dataDir, LOG_LEVEL: 'silent' },
+      cwd: dataDir,
+    });
+    let stdout = '';
+    let stderr = '';
+    child.stdout.on('data', (d: Buffer) => (stdout += d.toString()));
+    child.stderr.on('data', (d: Buffer) => (stderr += d.toString()));
+    child.on('exit', (code) => resolve({ code, stdout, stderr }));
+  });
+}
