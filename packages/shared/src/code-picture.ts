@@ -80,6 +80,8 @@ export interface CodePictureOptions {
   scale?: number;
   /** Put each entry's id on its mark (for hover and tap). */
   entryIds?: boolean;
+  /** Lanes 15% lower, labels in fewer rows: the wall, where height is short. */
+  compact?: boolean;
 }
 
 const INK = '#000';
@@ -107,7 +109,7 @@ const LANE_LABELS: Record<PictureLaneKey, string> = {
   rosc: 'ROSC',
 };
 /** Lane heights at scale 1. */
-const LANE_H: Record<PictureLaneKey, number> = { compressions: 26, rhythm: 38, shocks: 36, drugs: 46, airway: 34, etco2: 48, rosc: 26 };
+const LANE_H: Record<PictureLaneKey, number> = { compressions: 26, rhythm: 38, shocks: 40, drugs: 46, airway: 38, etco2: 48, rosc: 26 };
 
 const round = (n: number) => Math.round(n * 10) / 10;
 /** A rough width of text; enough to keep labels from overlapping. */
@@ -126,6 +128,11 @@ function tickStep(spanMs: number, plotW: number, minPx: number): number {
 }
 
 /** Places labels left to right in up to `rows` rows; a label that fits nowhere is left out (the mark keeps it as its tooltip). */
+/** How many label rows fit in a lane below a mark whose bottom is `markBottom` px under the lane's top. */
+function rowsThatFit(laneH: number, markBottom: number, size: number): number {
+  return Math.max(1, Math.min(3, Math.floor((laneH - markBottom - 2) / (size * 1.1))));
+}
+
 class LabelRows {
   private ends: number[];
   constructor(rows: number) {
@@ -144,6 +151,7 @@ class LabelRows {
 
 export function codePicture(timeline: Timeline, options: CodePictureOptions): CodePicture {
   const scale = options.scale ?? 1;
+  const density = options.compact ? 0.85 : 1;
   const size = 10 * scale;
   const small = 9 * scale;
   const width = options.width;
@@ -175,7 +183,7 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
   const lanes: PictureLane[] = [];
   let y = topBand;
   for (const key of PICTURE_LANES) {
-    const h = LANE_H[key] * scale;
+    const h = round(LANE_H[key] * scale * density);
     lanes.push({ key, label: LANE_LABELS[key], y, h });
     y += h;
   }
@@ -249,7 +257,7 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
 
   // Rhythm checks: a square with the rhythm; "P" under it when a pulse was felt.
   const rl = lane('rhythm');
-  const sq = 20 * scale;
+  const sq = 20 * scale * density;
   for (const r of timeline.rhythmChecks) {
     if (!inWindow(r.atMs)) continue;
     const cx = x(r.atMs);
@@ -271,7 +279,7 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
 
   // Shocks: a triangle, its energy beside it ("sync" for a cardioversion; hollow then).
   const sl = lane('shocks');
-  const shockRows = new LabelRows(2);
+  const shockRows = new LabelRows(Math.min(2, rowsThatFit(sl.h, 4 * scale + 12 * scale, small)));
   for (const s of timeline.shocks) {
     if (!inWindow(s.atMs)) continue;
     const cx = x(s.atMs);
@@ -301,7 +309,7 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
 
   // Drugs: a diamond, name and dose beside it, in up to three rows.
   const dl = lane('drugs');
-  const drugRows = new LabelRows(3);
+  const drugRows = new LabelRows(rowsThatFit(dl.h, 4 * scale + 10 * scale, small));
   for (const d of timeline.doses) {
     if (!inWindow(d.atMs)) continue;
     const cx = x(d.atMs);
@@ -325,7 +333,7 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
 
   // Airway (a circle) and access (a plus), with the device or route.
   const al = lane('airway');
-  const airRows = new LabelRows(2);
+  const airRows = new LabelRows(Math.min(2, rowsThatFit(al.h, 4 * scale + 10 * scale, small)));
   const things = [
     ...timeline.airway.map((e) => ({ id: e.id, atMs: Date.parse(e.at), text: AIRWAY_SHORT[e.device], kind: 'airway' as const })),
     ...timeline.access.map((e) => ({ id: e.id, atMs: Date.parse(e.at), text: e.route.toUpperCase(), kind: 'access' as const })),

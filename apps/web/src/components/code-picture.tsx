@@ -26,6 +26,7 @@ interface CodePictureViewProps {
   lastMs?: CodePictureOptions['lastMs'];
   nowMs?: number;
   scale?: number;
+  compact?: boolean;
   /** Dark ink on a light card by default; the wall draws light on dark. */
   inverse?: boolean;
   /** Marks can be hovered, focused or tapped to show their entry. */
@@ -76,11 +77,11 @@ function Shape({ s }: { s: PictureShape }) {
  * The picture of a code drawn as inline SVG from the shared layout. Hovering, focusing or tapping
  * a mark shows its entry below: time, words, who, and any correction.
  */
-export function CodePictureView({ timeline, entries, people = {}, protocol, lastMs, nowMs, scale, inverse, interactive = true, label }: CodePictureViewProps) {
+export function CodePictureView({ timeline, entries, people = {}, protocol, lastMs, nowMs, scale, compact, inverse, interactive = true, label }: CodePictureViewProps) {
   const [ref, width] = useWidth(scale && scale > 1 ? 1600 : 1000);
   const picture = useMemo(
-    () => codePicture(timeline, { width, lastMs, nowMs, scale, entryIds: interactive }),
-    [timeline, width, lastMs, nowMs, scale, interactive],
+    () => codePicture(timeline, { width, lastMs, nowMs, scale, compact, entryIds: interactive }),
+    [timeline, width, lastMs, nowMs, scale, compact, interactive],
   );
   const [selected, setSelected] = useState<string | null>(null);
   const byId = useMemo(() => new Map(entries.map((e) => [e.id, e])), [entries]);

@@ -200,6 +200,7 @@ function Wall({
                 lastMs={WALL_PICTURE_MS}
                 nowMs={nowMs}
                 scale={1.5}
+                compact
                 inverse
                 interactive={false}
                 label="The last 10 minutes of the code: compressions, rhythm checks, shocks, drugs, airway and access, ETCO2 and ROSC"
