@@ -1,7 +1,10 @@
 import { createRequire } from 'node:module';
 import path from 'node:path';
 import {
+  codePicture,
+  codePictureSvg,
   effectiveEntries,
+  foldLog,
   flaggedDoseText,
   resolveDrug,
   SIGNATURE_MEANING_TEXT,
@@ -20,6 +23,7 @@ import {
   type RecordSignature,
   type RecordStatus,
   type SummaryMetric,
+  type Timeline,
   type UtsteinDetails,
   type UtsteinField,
 } from '@steadyhand/shared';
@@ -58,6 +62,8 @@ export interface RecordPdfInput {
   integrity: RecordIntegrity;
   status: RecordStatus;
   summary: CodeSummary;
+  /** The fold the summary was read from; folded here when absent. */
+  timeline?: Timeline;
   settings: ProtocolSettings;
   signatures: RecordSignature[];
   /** userId → printed name, for the "recorded by" column (an entry's own kept name comes first). */
@@ -282,6 +288,11 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
   const location = code.location ?? 'Location not recorded';
   const category = code.category === 'pediatric' ? 'Pediatric' : 'Adult';
   const weight = code.weightKg !== null ? `${num(code.weightKg)} kg` : 'weight not recorded';
+
+  // --- the picture: vector, from the same fold as the summary ---
+  const folded = input.timeline ?? foldLog(code, record.entries, settings);
+  const pictureWidth = 523; // A4 less the side margins
+  const picture: Content = { svg: codePictureSvg(codePicture(folded, { width: pictureWidth, scale: 0.85 }), { font: 'Atkinson' }), width: pictureWidth };
 
   // --- summary ---
   const timePoints: [string, string | null, number | null][] = [
@@ -534,6 +545,13 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
       ['Record id', code.id],
       ['Copy made', `${clock.dateTime(input.generatedAt)} ${clock.zone}, stamped with server key ${input.keyId}`],
     ]),
+    heading('The code at a glance'),
+    picture,
+    {
+      text: 'Minutes from the arrest. Bars: compressions; hatched box: a pause over the warning, with its seconds; square: rhythm check; triangle: shock (hollow: synchronised); diamond: drug; circle: airway; cross: access; line: ETCO2 (mmHg); * corrected after recording.',
+      style: 'legend',
+      margin: [0, 2, 0, 0],
+    },
     heading('Summary'),
     timeTable,
     { text: '', margin: [0, 4, 0, 0] },
