@@ -318,6 +318,9 @@ describe('the signed record', () => {
     for (const label of ['The code at a glance', 'Compressions', 'Rhythm checks', 'Shocks', 'Drugs', 'Airway, access', 'ETCO2', 'ROSC', 'Arrest', 'End', 'min from arrest', 'VF', '200 J', 'Epinephrine 1 mg']) {
       expect(first, label).toContain(label);
     }
+    // Each font embedded once, the picture's labels included (a second copy would be a second subset).
+    const fonts = execFileSync('/usr/bin/pdffonts', [path.join(workDir, `record-${pdfCount}.pdf`)], { encoding: 'utf8' }).trim().split('\n').slice(2);
+    expect(fonts.map((l) => l.split(/\s+/)[0]?.replace(/^[A-Z]{6}\+/, '')).sort()).toEqual(['AtkinsonHyperlegible-Bold', 'AtkinsonHyperlegible-Regular']);
     // Drawn as vector: no image on page 1.
     expect(execFileSync('/usr/bin/pdfimages', ['-f', '1', '-l', '1', '-list', path.join(workDir, `record-${pdfCount}.pdf`)], { encoding: 'utf8' }).trim().split('\n')).toHaveLength(2);
 

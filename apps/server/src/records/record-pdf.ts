@@ -1,5 +1,5 @@
+import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
-import path from 'node:path';
 import {
   codePicture,
   codePictureSvg,
@@ -28,23 +28,35 @@ import {
   type UtsteinField,
 } from '@steadyhand/shared';
 import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interfaces.js';
+import { woffToSfnt } from './pdf-fonts.js';
 import type { CanonicalRecord } from './record-canonical.js';
 
 // pdfmake 0.3 is CommonJS and keeps its settings on one shared instance.
 const require = createRequire(import.meta.url);
-const pdfmake = require('pdfmake') as typeof import('pdfmake');
+const pdfmake = require('pdfmake') as typeof import('pdfmake') & {
+  /** pdfmake's in-memory files (base.js), read before the disk; missing from @types/pdfmake. */
+  virtualfs: { writeFileSync(name: string, content: Buffer): void };
+};
 
 const FONT_REGULAR = require.resolve('@fontsource/atkinson-hyperlegible/files/atkinson-hyperlegible-latin-400-normal.woff');
 const FONT_BOLD = require.resolve('@fontsource/atkinson-hyperlegible/files/atkinson-hyperlegible-latin-700-normal.woff');
-const FONT_FILES = new Set([FONT_REGULAR, FONT_BOLD].map((f) => path.resolve(f)));
+/**
+ * The fonts' PostScript names. pdfkit keeps each opened font under its PostScript name, so the
+ * picture's SVG text, which asks for the font by the name pdfmake was given, finds the font
+ * already open instead of reading and parsing the file again for every label.
+ */
+const REGULAR = 'AtkinsonHyperlegible-Regular';
+const BOLD = 'AtkinsonHyperlegible-Bold';
 
 let configured = false;
-/** Once per process: our font, no network, and no file but the two font files. */
+/** Once per process: our font unpacked in memory, no network and no file access. */
 function configurePdfmake(): void {
   if (configured) return;
-  pdfmake.addFonts({ Atkinson: { normal: FONT_REGULAR, bold: FONT_BOLD, italics: FONT_REGULAR, bolditalics: FONT_BOLD } });
+  pdfmake.virtualfs.writeFileSync(REGULAR, woffToSfnt(readFileSync(FONT_REGULAR)));
+  pdfmake.virtualfs.writeFileSync(BOLD, woffToSfnt(readFileSync(FONT_BOLD)));
+  pdfmake.addFonts({ Atkinson: { normal: REGULAR, bold: BOLD, italics: REGULAR, bolditalics: BOLD } });
   pdfmake.setUrlAccessPolicy(() => false);
-  pdfmake.setLocalAccessPolicy((file) => FONT_FILES.has(path.resolve(file)));
+  pdfmake.setLocalAccessPolicy(() => false);
   configured = true;
 }
 
