@@ -16,16 +16,20 @@ type Fields = Record<string, unknown> & { kind: string };
 async function overflowing(page: Page): Promise<string[]> {
   return page.evaluate(() => {
     const out: string[] = [];
-    if (document.documentElement.scrollWidth > window.innerWidth) out.push(`page ${document.documentElement.scrollWidth} > ${window.innerWidth}`);
+    if (document.documentElement.scrollWidth > window.innerWidth)
+      out.push(`page ${document.documentElement.scrollWidth} > ${window.innerWidth}`);
     for (const table of document.querySelectorAll('table')) {
       const frame = table.parentElement as HTMLElement;
       const right = frame.getBoundingClientRect().right + 1;
       const name = table.getAttribute('data-testid') ?? 'table';
-      if (table.scrollWidth > frame.clientWidth + 1) out.push(`${name}: ${table.scrollWidth} in a frame of ${frame.clientWidth}`);
+      if (table.scrollWidth > frame.clientWidth + 1)
+        out.push(`${name}: ${table.scrollWidth} in a frame of ${frame.clientWidth}`);
       for (const cell of table.querySelectorAll('th, td')) {
         const r = cell.getBoundingClientRect().right;
         if (r > right) {
-          out.push(`${name}: "${(cell.textContent ?? '').slice(0, 30)}" ends at ${Math.round(r)}, frame at ${Math.round(right)}`);
+          out.push(
+            `${name}: "${(cell.textContent ?? '').slice(0, 30)}" ends at ${Math.round(r)}, frame at ${Math.round(right)}`,
+          );
           break;
         }
       }
@@ -41,10 +45,18 @@ describe('the picture of a code, and tables that fit, in Chromium', () => {
     const { baseUrl } = run.server;
     const recorder = await apiSession(baseUrl, 'maren.holt');
     const arrestAt = '2026-03-04T07:42:10.000Z';
-    const { code } = (await recorder.post('/api/codes', { category: 'adult', arrestAt, location: 'Bed 7, picture test' })) as { code: { id: string } };
+    const { code } = (await recorder.post('/api/codes', {
+      category: 'adult',
+      arrestAt,
+      location: 'Bed 7, picture test',
+    })) as { code: { id: string } };
     const add = async (s: number, fields: Fields) => {
       const id = randomUUID();
-      await recorder.post(`/api/codes/${code.id}/entries`, { id, at: new Date(Date.parse(arrestAt) + s * 1000).toISOString(), ...fields });
+      await recorder.post(`/api/codes/${code.id}/entries`, {
+        id,
+        at: new Date(Date.parse(arrestAt) + s * 1000).toISOString(),
+        ...fields,
+      });
       return id;
     };
     await add(15, { kind: 'cpr', action: 'start' });
@@ -52,11 +64,22 @@ describe('the picture of a code, and tables that fit, in Chromium', () => {
     const vf = await add(90, { kind: 'rhythm', rhythm: 'vf', pulse: false });
     const shockId = await add(96, { kind: 'shock', joules: 200, synchronized: false });
     await add(118, { kind: 'cpr', action: 'start' });
-    const epi = await add(345, { kind: 'drug', drug: 'epinephrine', dose: 1, unit: 'mg', route: 'iv' });
+    const epi = await add(345, {
+      kind: 'drug',
+      drug: 'epinephrine',
+      dose: 1,
+      unit: 'mg',
+      route: 'iv',
+    });
     await add(380, { kind: 'etco2', mmHg: 21 });
     await add(980, { kind: 'rosc' });
     await add(1370, { kind: 'end', outcome: 'rosc' });
-    await add(1400, { kind: 'amend', target: epi, changes: { route: 'io' }, reason: 'Route read again from the chart' });
+    await add(1400, {
+      kind: 'amend',
+      target: epi,
+      changes: { route: 'io' },
+      reason: 'Route read again from the chart',
+    });
 
     const context = await newContext(run.browser, baseUrl, { width: 1280, height: 900 });
     const page = await context.newPage();
@@ -67,13 +90,28 @@ describe('the picture of a code, and tables that fit, in Chromium', () => {
     await svg.waitFor(POLL);
     // Lanes by name, marks by shape and label.
     const text = await svg.textContent();
-    for (const word of ['Compressions', 'Rhythm checks', 'Shocks', 'Drugs', 'ETCO2', 'ROSC', 'Arrest', 'End', 'VF', '200 J', 'Epinephrine 1 mg*', '21']) {
+    for (const word of [
+      'Compressions',
+      'Rhythm checks',
+      'Shocks',
+      'Drugs',
+      'ETCO2',
+      'ROSC',
+      'Arrest',
+      'End',
+      'VF',
+      '200 J',
+      'Epinephrine 1 mg*',
+      '21',
+    ]) {
       expect(text).toContain(word);
     }
     // The 30 s pause (1:28 to 1:58) is over the 10 s warning: marked with its seconds.
     expect(await svg.locator('[data-kind="pause"]').count()).toBe(1);
     expect(await svg.locator('[data-kind="pause"]').textContent()).toBe('30 s');
-    expect(await svg.locator(`[data-entry="${vf}"]`).getAttribute('aria-label')).toContain('Rhythm check at 1:30: VF');
+    expect(await svg.locator(`[data-entry="${vf}"]`).getAttribute('aria-label')).toContain(
+      'Rhythm check at 1:30: VF',
+    );
 
     // Hover a shock: its entry, who recorded it.
     await svg.locator(`[data-entry="${shockId}"]`).hover();
@@ -83,7 +121,9 @@ describe('the picture of a code, and tables that fit, in Chromium', () => {
     expect(await entry.innerText()).toContain('Maren Holt');
     // Tap (click) the corrected drug: the correction and what was first recorded.
     await svg.locator(`[data-entry="${epi}"]`).click();
-    await expect.poll(() => entry.getByTestId('picture-entry-correction').innerText(), POLL).toContain('Route read again from the chart');
+    await expect
+      .poll(() => entry.getByTestId('picture-entry-correction').innerText(), POLL)
+      .toContain('Route read again from the chart');
     expect(await entry.innerText()).toMatch(/first recorded: .*IV/i);
     // Keyboard: a mark takes focus and shows its entry too.
     await svg.locator(`[data-entry="${vf}"]`).focus();
@@ -112,7 +152,12 @@ describe('the picture of a code, and tables that fit, in Chromium', () => {
     const marks = svg.getByTestId('picture-mark');
     expect(await marks.count()).toBeGreaterThan(3);
     await marks.first().click();
-    await expect.poll(() => page.getByTestId('quality-picture').getByTestId('picture-entry').innerText(), POLL).toMatch(/\+\d+:\d\d\): /);
+    await expect
+      .poll(
+        () => page.getByTestId('quality-picture').getByTestId('picture-entry').innerText(),
+        POLL,
+      )
+      .toMatch(/\+\d+:\d\d\): /);
     expect(await overflowing(page)).toEqual([]);
 
     await page.goto('/quality/stats');
@@ -135,9 +180,17 @@ describe('the picture of a code, and tables that fit, in Chromium', () => {
     const { baseUrl } = run.server;
     const recorder = await apiSession(baseUrl, 'maren.holt');
     const arrestAt = new Date(Date.now() - 14 * 60_000).toISOString();
-    const { code } = (await recorder.post('/api/codes', { category: 'adult', arrestAt, location: 'Bed 3, wall picture' })) as { code: { id: string } };
+    const { code } = (await recorder.post('/api/codes', {
+      category: 'adult',
+      arrestAt,
+      location: 'Bed 3, wall picture',
+    })) as { code: { id: string } };
     const add = (s: number, fields: Fields) =>
-      recorder.post(`/api/codes/${code.id}/entries`, { id: randomUUID(), at: new Date(Date.parse(arrestAt) + s * 1000).toISOString(), ...fields });
+      recorder.post(`/api/codes/${code.id}/entries`, {
+        id: randomUUID(),
+        at: new Date(Date.parse(arrestAt) + s * 1000).toISOString(),
+        ...fields,
+      });
     await add(10, { kind: 'cpr', action: 'start' });
     await add(60, { kind: 'drug', drug: 'epinephrine', dose: 1, unit: 'mg', route: 'iv' }); // before the window
     await add(600, { kind: 'cpr', action: 'stop', reason: 'rhythm-check' });
@@ -160,10 +213,14 @@ describe('the picture of a code, and tables that fit, in Chromium', () => {
     // The first epinephrine, 13 minutes ago, is outside the window.
     expect(text).not.toContain('Epinephrine');
     // Large type: the smallest label is at least 13 px on screen.
-    const smallest = await svg.evaluate((el) => Math.min(...[...el.querySelectorAll('text')].map((t) => t.getBoundingClientRect().height)));
+    const smallest = await svg.evaluate((el) =>
+      Math.min(...[...el.querySelectorAll('text')].map((t) => t.getBoundingClientRect().height)),
+    );
     expect(smallest).toBeGreaterThanOrEqual(13);
     await screenshot(wall, 'picture-wall');
-    expect(await wall.evaluate(() => document.documentElement.scrollHeight)).toBeLessThanOrEqual(1080);
+    expect(await wall.evaluate(() => document.documentElement.scrollHeight)).toBeLessThanOrEqual(
+      1080,
+    );
     await context.close();
   });
 });

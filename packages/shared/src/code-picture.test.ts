@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { codePicture, codePictureSvg, PICTURE_LANES, type CodePicture, type PictureGroup, type PictureShape } from './code-picture.js';
+import {
+  codePicture,
+  codePictureSvg,
+  PICTURE_LANES,
+  type CodePicture,
+  type PictureGroup,
+  type PictureShape,
+} from './code-picture.js';
 import type { LogEntry } from './effective-log.js';
 import {
   abs,
@@ -41,7 +48,12 @@ function vfCode() {
     epi(t(4, 40)),
     etco2(t(5, 0), 22),
     drug(t(5, 10), 'amiodarone', 300),
-    { id: uuid(), at: new Date(abs(t(5, 30))).toISOString(), kind: 'airway', device: 'endotracheal' },
+    {
+      id: uuid(),
+      at: new Date(abs(t(5, 30))).toISOString(),
+      kind: 'airway',
+      device: 'endotracheal',
+    },
     { id: uuid(), at: new Date(abs(t(5, 40))).toISOString(), kind: 'access', route: 'io' },
     cprStop(t(6, 0), 'rhythm-check'),
     rhythm(t(6, 4), 'organized', true),
@@ -63,7 +75,8 @@ const texts = (p: CodePicture, kind?: PictureGroup['kind']) =>
     .flatMap((g) => g.shapes)
     .filter((s): s is Extract<PictureShape, { type: 'text' }> => s.type === 'text')
     .map((s) => s.text);
-const marks = (p: CodePicture, kind: PictureGroup['kind']) => p.groups.filter((g) => g.kind === kind);
+const marks = (p: CodePicture, kind: PictureGroup['kind']) =>
+  p.groups.filter((g) => g.kind === kind);
 /** The x where a mark stands: the first shape's left or centre. */
 const markX = (g: PictureGroup): number => {
   const s = g.shapes[0] as PictureShape;
@@ -82,7 +95,15 @@ describe('codePicture', () => {
       const [a, b] = [p.lanes[i - 1]!, p.lanes[i]!];
       expect(b.y).toBe(a.y + a.h);
     }
-    expect(texts(p, 'lane')).toEqual(['Compressions', 'Rhythm checks', 'Shocks', 'Drugs', 'Airway, access', 'ETCO2', 'ROSC']);
+    expect(texts(p, 'lane')).toEqual([
+      'Compressions',
+      'Rhythm checks',
+      'Shocks',
+      'Drugs',
+      'Airway, access',
+      'ETCO2',
+      'ROSC',
+    ]);
     expect(p.height).toBeGreaterThan(p.lanes.at(-1)!.y + p.lanes.at(-1)!.h);
   });
 
@@ -122,13 +143,17 @@ describe('codePicture', () => {
     expect(texts(p, 'arrest')).toEqual(['Arrest']);
     expect(texts(p, 'end')).toEqual(['End']);
     // A synchronised shock is a hollow triangle, a defibrillation a filled one.
-    const fills = marks(p, 'shock').map((g) => (g.shapes[0] as Extract<PictureShape, { type: 'path' }>).fill);
+    const fills = marks(p, 'shock').map(
+      (g) => (g.shapes[0] as Extract<PictureShape, { type: 'path' }>).fill,
+    );
     expect(fills).toEqual(['#000', '#000', '#fff']);
   });
 
   it('marks a corrected entry with a star and a dashed outline', () => {
     const { log, first } = vfCode();
-    const p = codePicture(fold([...log, amendOf(t(20, 0), first, { rhythm: 'pvt' })]), { width: 1000 });
+    const p = codePicture(fold([...log, amendOf(t(20, 0), first, { rhythm: 'pvt' })]), {
+      width: 1000,
+    });
     const g = marks(p, 'rhythm')[0]!;
     expect(g.corrected).toBe(true);
     expect(texts({ ...p, groups: [g] })).toEqual(['pVT*']);
@@ -163,7 +188,11 @@ describe('codePicture', () => {
       expect(r.x + r.w).toBeLessThanOrEqual(p.plotX + p.plotW + 0.2);
     }
     // Large type: the wall doubles the text size.
-    expect(Math.min(...p.groups.flatMap((g) => g.shapes).flatMap((s) => (s.type === 'text' ? [s.size] : [])))).toBeGreaterThanOrEqual(16);
+    expect(
+      Math.min(
+        ...p.groups.flatMap((g) => g.shapes).flatMap((s) => (s.type === 'text' ? [s.size] : [])),
+      ),
+    ).toBeGreaterThanOrEqual(16);
   });
 
   it('fills a window from the arrest before it slides, on a code still running', () => {

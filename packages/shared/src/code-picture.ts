@@ -12,11 +12,37 @@ import type { Timeline } from './timeline.js';
  */
 
 export type PictureShape =
-  | { type: 'rect'; x: number; y: number; w: number; h: number; fill: string; stroke?: string; dash?: boolean }
-  | { type: 'line'; x1: number; y1: number; x2: number; y2: number; stroke: string; width: number; dash?: boolean }
+  | {
+      type: 'rect';
+      x: number;
+      y: number;
+      w: number;
+      h: number;
+      fill: string;
+      stroke?: string;
+      dash?: boolean;
+    }
+  | {
+      type: 'line';
+      x1: number;
+      y1: number;
+      x2: number;
+      y2: number;
+      stroke: string;
+      width: number;
+      dash?: boolean;
+    }
   | { type: 'path'; d: string; fill: string; stroke: string; width: number }
   | { type: 'circle'; cx: number; cy: number; r: number; fill: string; stroke: string }
-  | { type: 'text'; x: number; y: number; text: string; size: number; anchor: 'start' | 'middle' | 'end'; bold?: boolean };
+  | {
+      type: 'text';
+      x: number;
+      y: number;
+      text: string;
+      size: number;
+      anchor: 'start' | 'middle' | 'end';
+      bold?: boolean;
+    };
 
 export type PictureMarkKind =
   | 'lane'
@@ -46,7 +72,15 @@ export interface PictureGroup {
   shapes: PictureShape[];
 }
 
-export const PICTURE_LANES = ['compressions', 'rhythm', 'shocks', 'drugs', 'airway', 'etco2', 'rosc'] as const;
+export const PICTURE_LANES = [
+  'compressions',
+  'rhythm',
+  'shocks',
+  'drugs',
+  'airway',
+  'etco2',
+  'rosc',
+] as const;
 export type PictureLaneKey = (typeof PICTURE_LANES)[number];
 
 export interface PictureLane {
@@ -109,7 +143,15 @@ const LANE_LABELS: Record<PictureLaneKey, string> = {
   rosc: 'ROSC',
 };
 /** Lane heights at scale 1. */
-const LANE_H: Record<PictureLaneKey, number> = { compressions: 26, rhythm: 38, shocks: 40, drugs: 46, airway: 38, etco2: 48, rosc: 26 };
+const LANE_H: Record<PictureLaneKey, number> = {
+  compressions: 26,
+  rhythm: 38,
+  shocks: 40,
+  drugs: 46,
+  airway: 38,
+  etco2: 48,
+  rosc: 26,
+};
 
 const round = (n: number) => Math.round(n * 10) / 10;
 /** A rough width of text; enough to keep labels from overlapping. */
@@ -159,7 +201,8 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
   const plotX = labelW;
   const plotW = Math.max(40, width - labelW - 8 * scale);
   const arrestMs = timeline.arrestAtMs;
-  const endMs = timeline.end?.atMs ?? Math.max(timeline.lastEntryMs, options.nowMs ?? timeline.lastEntryMs);
+  const endMs =
+    timeline.end?.atMs ?? Math.max(timeline.lastEntryMs, options.nowMs ?? timeline.lastEntryMs);
   let fromMs = arrestMs;
   let toMs = Math.max(endMs, arrestMs + 60_000);
   if (options.lastMs !== undefined) {
@@ -191,8 +234,12 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
   const height = round(axisY + 28 * scale);
   const lane = (key: PictureLaneKey) => lanes.find((l) => l.key === key) as PictureLane;
   const groups: PictureGroup[] = [];
-  const add = (g: Omit<PictureGroup, 'corrected' | 'entryId'> & { entryId?: string | null; corrected?: boolean }) =>
-    groups.push({ entryId: null, corrected: false, ...g });
+  const add = (
+    g: Omit<PictureGroup, 'corrected' | 'entryId'> & {
+      entryId?: string | null;
+      corrected?: boolean;
+    },
+  ) => groups.push({ entryId: null, corrected: false, ...g });
 
   // Lanes: a name on the left, a rule under each.
   for (const l of lanes) {
@@ -200,22 +247,62 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
       kind: 'lane',
       label: l.label,
       shapes: [
-        { type: 'text', x: 4 * scale, y: round(l.y + l.h / 2 + size * 0.35), text: l.label, size, anchor: 'start', bold: true },
-        { type: 'line', x1: 0, y1: round(l.y + l.h), x2: width, y2: round(l.y + l.h), stroke: PALE, width: 0.5 },
+        {
+          type: 'text',
+          x: 4 * scale,
+          y: round(l.y + l.h / 2 + size * 0.35),
+          text: l.label,
+          size,
+          anchor: 'start',
+          bold: true,
+        },
+        {
+          type: 'line',
+          x1: 0,
+          y1: round(l.y + l.h),
+          x2: width,
+          y2: round(l.y + l.h),
+          stroke: PALE,
+          width: 0.5,
+        },
       ],
     });
   }
 
   // Time axis in minutes from the arrest.
   const step = tickStep(span, plotW, 40 * scale);
-  const axis: PictureShape[] = [{ type: 'line', x1: plotX, y1: axisY, x2: plotX + plotW, y2: axisY, stroke: INK, width: 1 }];
+  const axis: PictureShape[] = [
+    { type: 'line', x1: plotX, y1: axisY, x2: plotX + plotW, y2: axisY, stroke: INK, width: 1 },
+  ];
   const firstTick = Math.ceil((fromMs - arrestMs) / (step * 60_000)) * step;
   for (let m = firstTick; arrestMs + m * 60_000 <= toMs; m += step) {
     const tx = x(arrestMs + m * 60_000);
-    axis.push({ type: 'line', x1: tx, y1: topBand, x2: tx, y2: axisY + 4 * scale, stroke: '#e2e2e2', width: 0.5 });
-    axis.push({ type: 'text', x: tx, y: round(axisY + 4 * scale + size), text: minutesLabel(m * 60_000), size: small, anchor: 'middle' });
+    axis.push({
+      type: 'line',
+      x1: tx,
+      y1: topBand,
+      x2: tx,
+      y2: axisY + 4 * scale,
+      stroke: '#e2e2e2',
+      width: 0.5,
+    });
+    axis.push({
+      type: 'text',
+      x: tx,
+      y: round(axisY + 4 * scale + size),
+      text: minutesLabel(m * 60_000),
+      size: small,
+      anchor: 'middle',
+    });
   }
-  axis.push({ type: 'text', x: 4 * scale, y: round(axisY + 4 * scale + size), text: 'min from arrest', size: small, anchor: 'start' });
+  axis.push({
+    type: 'text',
+    x: 4 * scale,
+    y: round(axisY + 4 * scale + size),
+    text: 'min from arrest',
+    size: small,
+    anchor: 'start',
+  });
   add({ kind: 'axis', label: 'Minutes from the arrest', shapes: axis });
 
   // Compressions: a bar per run; a pause over the warning threshold is a hatched box with its seconds.
@@ -229,7 +316,9 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
     add({
       kind: 'compressions',
       label: `Compressions ${since(run.startMs)} to ${since(run.endMs ?? endMs)}`,
-      shapes: [{ type: 'rect', x: x(a), y: round(barY), w: round(x(b) - x(a)), h: round(barH), fill: MID }],
+      shapes: [
+        { type: 'rect', x: x(a), y: round(barY), w: round(x(b) - x(a)), h: round(barH), fill: MID },
+      ],
     });
   }
   const warnMs = timeline.protocol.pauseWarningSeconds * 1000;
@@ -245,14 +334,43 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
     const text = `${seconds} s`;
     const w = Math.max(round(x(b) - x(a)), 2);
     const shapes: PictureShape[] = [
-      { type: 'rect', x: x(a), y: round(barY - 2 * scale), w, h: round(barH + 4 * scale), fill: WHITE, stroke: INK, dash: true },
-      { type: 'line', x1: x(a), y1: round(barY + barH + 2 * scale), x2: round(x(a) + w), y2: round(barY - 2 * scale), stroke: INK, width: 0.8 },
+      {
+        type: 'rect',
+        x: x(a),
+        y: round(barY - 2 * scale),
+        w,
+        h: round(barH + 4 * scale),
+        fill: WHITE,
+        stroke: INK,
+        dash: true,
+      },
+      {
+        type: 'line',
+        x1: x(a),
+        y1: round(barY + barH + 2 * scale),
+        x2: round(x(a) + w),
+        y2: round(barY - 2 * scale),
+        stroke: INK,
+        width: 0.8,
+      },
     ];
     const tw = textWidth(text, small);
     if (pauseLabels.place(x(a), tw) !== null) {
-      shapes.push({ type: 'text', x: x(a), y: round(cl.y + small), text, size: small, anchor: 'start', bold: true });
+      shapes.push({
+        type: 'text',
+        x: x(a),
+        y: round(cl.y + small),
+        text,
+        size: small,
+        anchor: 'start',
+        bold: true,
+      });
     }
-    add({ kind: 'pause', label: `Pause of ${seconds} s at ${since(p.startMs)}, over the ${warnMs / 1000} s warning`, shapes });
+    add({
+      kind: 'pause',
+      label: `Pause of ${seconds} s at ${since(p.startMs)}, over the ${warnMs / 1000} s warning`,
+      shapes,
+    });
   }
 
   // Rhythm checks: a square with the rhythm; "P" under it when a pulse was felt.
@@ -264,10 +382,35 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
     const text = RHYTHM_SHORT[r.rhythm] + star(r.id);
     const w = Math.max(sq, textWidth(text, small) + 4 * scale);
     const shapes: PictureShape[] = [
-      { type: 'rect', x: round(cx - w / 2), y: round(rl.y + 3 * scale), w: round(w), h: sq, fill: WHITE, stroke: INK, dash: corrected(r.id) },
-      { type: 'text', x: cx, y: round(rl.y + 3 * scale + sq / 2 + small * 0.35), text, size: small, anchor: 'middle', bold: true },
+      {
+        type: 'rect',
+        x: round(cx - w / 2),
+        y: round(rl.y + 3 * scale),
+        w: round(w),
+        h: sq,
+        fill: WHITE,
+        stroke: INK,
+        dash: corrected(r.id),
+      },
+      {
+        type: 'text',
+        x: cx,
+        y: round(rl.y + 3 * scale + sq / 2 + small * 0.35),
+        text,
+        size: small,
+        anchor: 'middle',
+        bold: true,
+      },
     ];
-    if (r.pulse) shapes.push({ type: 'text', x: cx, y: round(rl.y + rl.h - 3 * scale), text: 'pulse', size: small * 0.9, anchor: 'middle' });
+    if (r.pulse)
+      shapes.push({
+        type: 'text',
+        x: cx,
+        y: round(rl.y + rl.h - 3 * scale),
+        text: 'pulse',
+        size: small * 0.9,
+        anchor: 'middle',
+      });
     add({
       kind: 'rhythm',
       entryId: idOf(r.id),
@@ -297,7 +440,15 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
     ];
     const tw = textWidth(text, small);
     const row = shockRows.place(cx - tri / 2, Math.max(tw, tri));
-    if (row !== null) shapes.push({ type: 'text', x: round(cx - tri / 2), y: round(top + tri + small + row * small * 1.1), text, size: small, anchor: 'start' });
+    if (row !== null)
+      shapes.push({
+        type: 'text',
+        x: round(cx - tri / 2),
+        y: round(top + tri + small + row * small * 1.1),
+        text,
+        size: small,
+        anchor: 'start',
+      });
     add({
       kind: 'shock',
       entryId: idOf(s.id),
@@ -317,11 +468,25 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
     const cy = dl.y + 4 * scale + r;
     const text = `${d.label} ${d.dose} ${d.unit}${star(d.id)}`;
     const shapes: PictureShape[] = [
-      { type: 'path', d: `M${round(cx)} ${round(cy - r)}L${round(cx + r)} ${round(cy)}L${round(cx)} ${round(cy + r)}L${round(cx - r)} ${round(cy)}Z`, fill: INK, stroke: INK, width: 1 },
+      {
+        type: 'path',
+        d: `M${round(cx)} ${round(cy - r)}L${round(cx + r)} ${round(cy)}L${round(cx)} ${round(cy + r)}L${round(cx - r)} ${round(cy)}Z`,
+        fill: INK,
+        stroke: INK,
+        width: 1,
+      },
     ];
     const tw = textWidth(text, small);
     const row = drugRows.place(cx - r, tw);
-    if (row !== null) shapes.push({ type: 'text', x: round(cx - r), y: round(cy + r + small + row * small * 1.1), text, size: small, anchor: 'start' });
+    if (row !== null)
+      shapes.push({
+        type: 'text',
+        x: round(cx - r),
+        y: round(cy + r + small + row * small * 1.1),
+        text,
+        size: small,
+        anchor: 'start',
+      });
     add({
       kind: 'drug',
       entryId: idOf(d.id),
@@ -335,8 +500,18 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
   const al = lane('airway');
   const airRows = new LabelRows(Math.min(2, rowsThatFit(al.h, 4 * scale + 10 * scale, small)));
   const things = [
-    ...timeline.airway.map((e) => ({ id: e.id, atMs: Date.parse(e.at), text: AIRWAY_SHORT[e.device], kind: 'airway' as const })),
-    ...timeline.access.map((e) => ({ id: e.id, atMs: Date.parse(e.at), text: e.route.toUpperCase(), kind: 'access' as const })),
+    ...timeline.airway.map((e) => ({
+      id: e.id,
+      atMs: Date.parse(e.at),
+      text: AIRWAY_SHORT[e.device],
+      kind: 'airway' as const,
+    })),
+    ...timeline.access.map((e) => ({
+      id: e.id,
+      atMs: Date.parse(e.at),
+      text: e.route.toUpperCase(),
+      kind: 'access' as const,
+    })),
   ].sort((a, b) => a.atMs - b.atMs);
   for (const a of things) {
     if (!inWindow(a.atMs)) continue;
@@ -347,9 +522,25 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
     const shapes: PictureShape[] =
       a.kind === 'airway'
         ? [{ type: 'circle', cx, cy: round(cy), r, fill: WHITE, stroke: INK }]
-        : [{ type: 'path', d: `M${round(cx - r)} ${round(cy)}H${round(cx + r)}M${round(cx)} ${round(cy - r)}V${round(cy + r)}`, fill: 'none', stroke: INK, width: 2 * scale }];
+        : [
+            {
+              type: 'path',
+              d: `M${round(cx - r)} ${round(cy)}H${round(cx + r)}M${round(cx)} ${round(cy - r)}V${round(cy + r)}`,
+              fill: 'none',
+              stroke: INK,
+              width: 2 * scale,
+            },
+          ];
     const row = airRows.place(cx - r, textWidth(text, small));
-    if (row !== null) shapes.push({ type: 'text', x: round(cx - r), y: round(cy + r + small + row * small * 1.1), text, size: small, anchor: 'start' });
+    if (row !== null)
+      shapes.push({
+        type: 'text',
+        x: round(cx - r),
+        y: round(cy + r + small + row * small * 1.1),
+        text,
+        size: small,
+        anchor: 'start',
+      });
     add({
       kind: a.kind,
       entryId: idOf(a.id),
@@ -368,20 +559,43 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
     add({
       kind: 'etco2',
       label: `ETCO2 line, 0 to ${top} mmHg`,
-      shapes: [{ type: 'path', d: pts.map((p, i) => `${i ? 'L' : 'M'}${x(p.atMs)} ${ey(p.mmHg)}`).join(''), fill: 'none', stroke: INK, width: 1.2 * scale }],
+      shapes: [
+        {
+          type: 'path',
+          d: pts.map((p, i) => `${i ? 'L' : 'M'}${x(p.atMs)} ${ey(p.mmHg)}`).join(''),
+          fill: 'none',
+          stroke: INK,
+          width: 1.2 * scale,
+        },
+      ],
     });
   }
   const etRows = new LabelRows(1);
   for (const p of pts) {
     const text = `${p.mmHg}${star(p.id)}`;
-    const shapes: PictureShape[] = [{ type: 'circle', cx: x(p.atMs), cy: ey(p.mmHg), r: 2.5 * scale, fill: INK, stroke: INK }];
+    const shapes: PictureShape[] = [
+      { type: 'circle', cx: x(p.atMs), cy: ey(p.mmHg), r: 2.5 * scale, fill: INK, stroke: INK },
+    ];
     const tw = textWidth(text, small);
     if (etRows.place(x(p.atMs) - tw / 2, tw) !== null) {
       const above = ey(p.mmHg) - 4 * scale;
       const ty = above - small < el.y ? ey(p.mmHg) + small + 3 * scale : above;
-      shapes.push({ type: 'text', x: x(p.atMs), y: round(ty), text, size: small, anchor: 'middle' });
+      shapes.push({
+        type: 'text',
+        x: x(p.atMs),
+        y: round(ty),
+        text,
+        size: small,
+        anchor: 'middle',
+      });
     }
-    add({ kind: 'etco2', entryId: idOf(p.id), corrected: corrected(p.id), label: `ETCO2 ${p.mmHg} mmHg at ${since(p.atMs)}`, shapes });
+    add({
+      kind: 'etco2',
+      entryId: idOf(p.id),
+      corrected: corrected(p.id),
+      label: `ETCO2 ${p.mmHg} mmHg at ${since(p.atMs)}`,
+      shapes,
+    });
   }
 
   // ROSC periods as open boxes; a re-arrest as a dashed line with its word.
@@ -392,17 +606,56 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
     const b = Math.min(rEnd, toMs);
     if (b > a || inWindow(r.startMs)) {
       const w = Math.max(round(x(b) - x(a)), 2);
-      const shapes: PictureShape[] = [{ type: 'rect', x: x(a), y: round(ol.y + 4 * scale), w, h: round(ol.h - 8 * scale), fill: '#eee', stroke: INK }];
-      if (w >= textWidth('ROSC', small) + 4 * scale) shapes.push({ type: 'text', x: round(x(a) + 3 * scale), y: round(ol.y + ol.h / 2 + small * 0.35), text: 'ROSC', size: small, anchor: 'start', bold: true });
-      add({ kind: 'rosc', label: `ROSC from ${since(r.startMs)}${r.endMs === null ? '' : ` to ${since(r.endMs)}`}`, shapes });
+      const shapes: PictureShape[] = [
+        {
+          type: 'rect',
+          x: x(a),
+          y: round(ol.y + 4 * scale),
+          w,
+          h: round(ol.h - 8 * scale),
+          fill: '#eee',
+          stroke: INK,
+        },
+      ];
+      if (w >= textWidth('ROSC', small) + 4 * scale)
+        shapes.push({
+          type: 'text',
+          x: round(x(a) + 3 * scale),
+          y: round(ol.y + ol.h / 2 + small * 0.35),
+          text: 'ROSC',
+          size: small,
+          anchor: 'start',
+          bold: true,
+        });
+      add({
+        kind: 'rosc',
+        label: `ROSC from ${since(r.startMs)}${r.endMs === null ? '' : ` to ${since(r.endMs)}`}`,
+        shapes,
+      });
     }
     if (r.endedBy === 'rearrest' && r.endMs !== null && inWindow(r.endMs)) {
       add({
         kind: 'rearrest',
         label: `Re-arrest at ${since(r.endMs)}`,
         shapes: [
-          { type: 'line', x1: x(r.endMs), y1: topBand, x2: x(r.endMs), y2: axisY, stroke: INK, width: 1, dash: true },
-          { type: 'text', x: round(x(r.endMs) + 2 * scale), y: round(ol.y + ol.h - 2 * scale), text: 'Re-arrest', size: small, anchor: 'start' },
+          {
+            type: 'line',
+            x1: x(r.endMs),
+            y1: topBand,
+            x2: x(r.endMs),
+            y2: axisY,
+            stroke: INK,
+            width: 1,
+            dash: true,
+          },
+          {
+            type: 'text',
+            x: round(x(r.endMs) + 2 * scale),
+            y: round(ol.y + ol.h - 2 * scale),
+            text: 'Re-arrest',
+            size: small,
+            anchor: 'start',
+          },
         ],
       });
     }
@@ -414,8 +667,24 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
       kind: 'arrest',
       label: 'Arrest',
       shapes: [
-        { type: 'line', x1: x(arrestMs), y1: topBand - 2 * scale, x2: x(arrestMs), y2: axisY, stroke: INK, width: 1.5 * scale },
-        { type: 'text', x: x(arrestMs), y: round(topBand - 4 * scale), text: 'Arrest', size: small, anchor: 'start', bold: true },
+        {
+          type: 'line',
+          x1: x(arrestMs),
+          y1: topBand - 2 * scale,
+          x2: x(arrestMs),
+          y2: axisY,
+          stroke: INK,
+          width: 1.5 * scale,
+        },
+        {
+          type: 'text',
+          x: x(arrestMs),
+          y: round(topBand - 4 * scale),
+          text: 'Arrest',
+          size: small,
+          anchor: 'start',
+          bold: true,
+        },
       ],
     });
   }
@@ -426,8 +695,24 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
       entryId: timeline.end.id ? idOf(timeline.end.id) : null,
       label: `End at ${since(timeline.end.atMs)}`,
       shapes: [
-        { type: 'line', x1: ex, y1: topBand - 2 * scale, x2: ex, y2: axisY, stroke: INK, width: 1.5 * scale },
-        { type: 'text', x: ex, y: round(topBand - 4 * scale), text: 'End', size: small, anchor: 'end', bold: true },
+        {
+          type: 'line',
+          x1: ex,
+          y1: topBand - 2 * scale,
+          x2: ex,
+          y2: axisY,
+          stroke: INK,
+          width: 1.5 * scale,
+        },
+        {
+          type: 'text',
+          x: ex,
+          y: round(topBand - 4 * scale),
+          text: 'End',
+          size: small,
+          anchor: 'end',
+          bold: true,
+        },
       ],
     });
   }
@@ -436,7 +721,10 @@ export function codePicture(timeline: Timeline, options: CodePictureOptions): Co
 }
 
 const escapeXml = (s: string) =>
-  s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] as string);
+  s.replace(
+    /[&<>"']/g,
+    (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] as string,
+  );
 
 function shapeSvg(s: PictureShape, font: string): string {
   switch (s.type) {
@@ -454,7 +742,10 @@ function shapeSvg(s: PictureShape, font: string): string {
 }
 
 /** The picture as one SVG document (the PDF embeds it as vector). */
-export function codePictureSvg(picture: CodePicture, options: { font?: string; title?: string } = {}): string {
+export function codePictureSvg(
+  picture: CodePicture,
+  options: { font?: string; title?: string } = {},
+): string {
   const font = options.font ?? 'sans-serif';
   const body = picture.groups
     .map((g) => {

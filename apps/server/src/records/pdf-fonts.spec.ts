@@ -4,7 +4,9 @@ import { describe, expect, it } from 'vitest';
 import { woffToSfnt } from './pdf-fonts.js';
 
 const require = createRequire(import.meta.url);
-const woff = readFileSync(require.resolve('@fontsource/atkinson-hyperlegible/files/atkinson-hyperlegible-latin-400-normal.woff'));
+const woff = readFileSync(
+  require.resolve('@fontsource/atkinson-hyperlegible/files/atkinson-hyperlegible-latin-400-normal.woff'),
+);
 
 /** OpenType table checksum: the sum of the table's big-endian 32-bit words, padded with zeros. */
 function checksum(data: Buffer): number {
@@ -38,6 +40,8 @@ describe('woffToSfnt', () => {
   });
 
   it('refuses what is not a WOFF 1.0 font', () => {
-    expect(() => woffToSfnt(Buffer.from('wOF2\0\0\0\0'.padEnd(48, '\0')))).toThrow('not a WOFF 1.0 font');
+    expect(() => woffToSfnt(Buffer.from('wOF2\0\0\0\0'.padEnd(48, '\0')))).toThrow(
+      'not a WOFF 1.0 font',
+    );
   });
 });

@@ -12,16 +12,28 @@ export async function apiSession(baseUrl: string, username: string) {
   const { token } = (await first.json()) as { token: string };
   const login = await fetch(`${baseUrl}/api/auth/login`, {
     method: 'POST',
-    headers: { 'content-type': 'application/json', 'x-csrf-token': token, cookie: pre, origin: baseUrl },
+    headers: {
+      'content-type': 'application/json',
+      'x-csrf-token': token,
+      cookie: pre,
+      origin: baseUrl,
+    },
     body: JSON.stringify({ username, password: DEMO_PASSWORD }),
   });
   if (login.status !== 200) throw new Error(`sign-in of ${username}: ${login.status}`);
   const cookie = cookieOf(login) || pre;
-  const { token: csrf } = (await (await fetch(`${baseUrl}/api/auth/csrf`, { headers: { cookie } })).json()) as { token: string };
+  const { token: csrf } = (await (
+    await fetch(`${baseUrl}/api/auth/csrf`, { headers: { cookie } })
+  ).json()) as { token: string };
   const call = async (method: string, path: string, body?: unknown) => {
     const res = await fetch(`${baseUrl}${path}`, {
       method,
-      headers: { 'content-type': 'application/json', 'x-csrf-token': csrf, cookie, origin: baseUrl },
+      headers: {
+        'content-type': 'application/json',
+        'x-csrf-token': csrf,
+        cookie,
+        origin: baseUrl,
+      },
       body: body === undefined ? undefined : JSON.stringify(body),
     });
     if (res.status >= 300) throw new Error(`${method} ${path}: ${res.status} ${await res.text()}`);

@@ -54,11 +54,27 @@ function Shape({ s }: { s: PictureShape }) {
   switch (s.type) {
     case 'rect':
       return (
-        <rect x={s.x} y={s.y} width={s.w} height={s.h} fill={s.fill} stroke={s.stroke} strokeDasharray={s.dash ? '3 2' : undefined} />
+        <rect
+          x={s.x}
+          y={s.y}
+          width={s.w}
+          height={s.h}
+          fill={s.fill}
+          stroke={s.stroke}
+          strokeDasharray={s.dash ? '3 2' : undefined}
+        />
       );
     case 'line':
       return (
-        <line x1={s.x1} y1={s.y1} x2={s.x2} y2={s.y2} stroke={s.stroke} strokeWidth={s.width} strokeDasharray={s.dash ? '4 3' : undefined} />
+        <line
+          x1={s.x1}
+          y1={s.y1}
+          x2={s.x2}
+          y2={s.y2}
+          stroke={s.stroke}
+          strokeWidth={s.width}
+          strokeDasharray={s.dash ? '4 3' : undefined}
+        />
       );
     case 'path':
       return <path d={s.d} fill={s.fill} stroke={s.stroke} strokeWidth={s.width} />;
@@ -66,7 +82,14 @@ function Shape({ s }: { s: PictureShape }) {
       return <circle cx={s.cx} cy={s.cy} r={s.r} fill={s.fill} stroke={s.stroke} />;
     case 'text':
       return (
-        <text x={s.x} y={s.y} fontSize={s.size} textAnchor={s.anchor} fontWeight={s.bold ? 'bold' : undefined} fill="currentColor">
+        <text
+          x={s.x}
+          y={s.y}
+          fontSize={s.size}
+          textAnchor={s.anchor}
+          fontWeight={s.bold ? 'bold' : undefined}
+          fill="currentColor"
+        >
           {s.text}
         </text>
       );
@@ -77,7 +100,19 @@ function Shape({ s }: { s: PictureShape }) {
  * The picture of a code drawn as inline SVG from the shared layout. Hovering, focusing or tapping
  * a mark shows its entry below: time, words, who, and any correction.
  */
-export function CodePictureView({ timeline, entries, people = {}, protocol, lastMs, nowMs, scale, compact, inverse, interactive = true, label }: CodePictureViewProps) {
+export function CodePictureView({
+  timeline,
+  entries,
+  people = {},
+  protocol,
+  lastMs,
+  nowMs,
+  scale,
+  compact,
+  inverse,
+  interactive = true,
+  label,
+}: CodePictureViewProps) {
   const [ref, width] = useWidth(scale && scale > 1 ? 1600 : 1000);
   const picture = useMemo(
     () => codePicture(timeline, { width, lastMs, nowMs, scale, compact, entryIds: interactive }),
@@ -85,14 +120,23 @@ export function CodePictureView({ timeline, entries, people = {}, protocol, last
   );
   const [selected, setSelected] = useState<string | null>(null);
   const byId = useMemo(() => new Map(entries.map((e) => [e.id, e])), [entries]);
-  const effective = useMemo(() => new Map(effectiveEntries(entries).map((e) => [e.id, e])), [entries]);
+  const effective = useMemo(
+    () => new Map(effectiveEntries(entries).map((e) => [e.id, e])),
+    [entries],
+  );
   const who = (id: string | undefined, userId: string | undefined) =>
-    (id ? byId.get(id)?.userName : undefined) ?? (userId ? (people[userId] ?? 'Unknown person') : 'not recorded');
+    (id ? byId.get(id)?.userName : undefined) ??
+    (userId ? (people[userId] ?? 'Unknown person') : 'not recorded');
   const entry = selected ? effective.get(selected) : undefined;
 
   const group = (g: PictureGroup, i: number) => {
     const shapes = g.shapes.map((s, j) => <Shape key={j} s={s} />);
-    if (!g.entryId) return <g key={i} data-kind={g.kind}>{shapes}</g>;
+    if (!g.entryId)
+      return (
+        <g key={i} data-kind={g.kind}>
+          {shapes}
+        </g>
+      );
     const id = g.entryId;
     return (
       <g
@@ -127,7 +171,17 @@ export function CodePictureView({ timeline, entries, people = {}, protocol, last
         borderWidth={inverse ? undefined : '1px'}
         borderRadius="l2"
         overflow="hidden"
-        css={inverse ? { '& [fill="#000"]': { fill: 'white' }, '& [stroke="#000"]': { stroke: 'white' }, '& [fill="#fff"]': { fill: 'black' }, '& [fill="#eee"]': { fill: '#333' }, '& [fill="#555"]': { fill: '#bbb' } } : undefined}
+        css={
+          inverse
+            ? {
+                '& [fill="#000"]': { fill: 'white' },
+                '& [stroke="#000"]': { stroke: 'white' },
+                '& [fill="#fff"]': { fill: 'black' },
+                '& [fill="#eee"]': { fill: '#333' },
+                '& [fill="#555"]': { fill: '#bbb' },
+              }
+            : undefined
+        }
       >
         <svg
           width={picture.width}
@@ -146,21 +200,26 @@ export function CodePictureView({ timeline, entries, people = {}, protocol, last
           {entry ? (
             <Stack gap="0.5">
               <Text fontWeight="bold">
-                {formatClockTime(entry.at)} (+{formatSeconds((Date.parse(entry.at) - timeline.arrestAtMs) / 1000)}):{' '}
+                {formatClockTime(entry.at)} (+
+                {formatSeconds((Date.parse(entry.at) - timeline.arrestAtMs) / 1000)}):{' '}
                 {describeEntry(entry, protocol, byId)}
               </Text>
-              <Text textStyle="sm">Recorded by {who(entry.id, byId.get(entry.id)?.userId)}{entry.deviceId ? ` on ${entry.deviceId}` : ''}.</Text>
+              <Text textStyle="sm">
+                Recorded by {who(entry.id, byId.get(entry.id)?.userId)}
+                {entry.deviceId ? ` on ${entry.deviceId}` : ''}.
+              </Text>
               {entry.amendments.map((a) => (
                 <Text key={a.id} textStyle="sm" data-testid="picture-entry-correction">
-                  Corrected by {who(a.id, a.userId)} (first recorded: {describeEntry(entry.original, protocol, byId)}): {a.reason}
+                  Corrected by {who(a.id, a.userId)} (first recorded:{' '}
+                  {describeEntry(entry.original, protocol, byId)}): {a.reason}
                 </Text>
               ))}
             </Stack>
           ) : (
             <Text color="fg.muted" textStyle="sm">
-              Point at or tap a mark to see its entry. Squares are rhythm checks, triangles shocks (hollow: synchronised),
-              diamonds drugs, circles airway, crosses access; a hatched box is a pause over the warning; * marks a corrected
-              entry.
+              Point at or tap a mark to see its entry. Squares are rhythm checks, triangles shocks
+              (hollow: synchronised), diamonds drugs, circles airway, crosses access; a hatched box
+              is a pause over the warning; * marks a corrected entry.
             </Text>
           )}
         </Box>
@@ -170,8 +229,19 @@ export function CodePictureView({ timeline, entries, people = {}, protocol, last
 }
 
 /** The picture of a stored record: folds its log once with the code's own protocol. */
-export function RecordPicture({ record, people, protocol }: { record: CanonicalRecord; people?: Record<string, string>; protocol: ProtocolSettings }) {
-  const timeline = useMemo(() => foldLog(record.code, record.entries, protocol), [record, protocol]);
+export function RecordPicture({
+  record,
+  people,
+  protocol,
+}: {
+  record: CanonicalRecord;
+  people?: Record<string, string>;
+  protocol: ProtocolSettings;
+}) {
+  const timeline = useMemo(
+    () => foldLog(record.code, record.entries, protocol),
+    [record, protocol],
+  );
   return (
     <CodePictureView
       timeline={timeline}
