@@ -221,6 +221,32 @@ describe('the picture of a code, and tables that fit, in Chromium', () => {
     expect(await wall.evaluate(() => document.documentElement.scrollHeight)).toBeLessThanOrEqual(
       1080,
     );
+
+    // A child's wall gives the doses the widest column; the picture takes the last entries' place there too.
+    const { code: child } = (await recorder.post('/api/codes', {
+      category: 'pediatric',
+      weightKg: 18,
+      arrestAt,
+      location: 'Bed 4, wall picture',
+    })) as { code: { id: string } };
+    const addChild = (s: number, fields: Fields) =>
+      recorder.post(`/api/codes/${child.id}/entries`, {
+        id: randomUUID(),
+        at: new Date(Date.parse(arrestAt) + s * 1000).toISOString(),
+        ...fields,
+      });
+    await addChild(10, { kind: 'cpr', action: 'start' });
+    await addChild(500, { kind: 'shock', joules: 36, synchronized: false });
+    await wall.goto(`/codes/${child.id}/wall`);
+    await wall.getByTestId('wall-recent').waitFor(POLL);
+    await wall.getByTestId('wall-picture-toggle').click();
+    const childSvg = wall.getByTestId('wall-picture').getByTestId('code-picture');
+    await childSvg.waitFor(POLL);
+    expect(await childSvg.textContent()).toContain('36 J');
+    await screenshot(wall, 'picture-wall-child');
+    expect(await wall.evaluate(() => document.documentElement.scrollHeight)).toBeLessThanOrEqual(
+      1080,
+    );
     await context.close();
   });
 });

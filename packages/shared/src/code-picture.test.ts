@@ -195,6 +195,31 @@ describe('codePicture', () => {
     ).toBeGreaterThanOrEqual(16);
   });
 
+  it('draws compact lanes a quarter lower for the wall, keeping every lane and its labels inside it', () => {
+    const tl = fold(vfCode().log);
+    const full = codePicture(tl, { width: 900, scale: 1.5 });
+    const compact = codePicture(tl, { width: 900, scale: 1.5, compact: true });
+    expect(compact.lanes.map((l) => l.key)).toEqual([...PICTURE_LANES]);
+    const lanesH = (p: CodePicture) => p.lanes.reduce((sum, l) => sum + l.h, 0);
+    expect(lanesH(compact)).toBeCloseTo(lanesH(full) * 0.75, 0);
+    for (const g of compact.groups.filter((g) =>
+      ['rhythm', 'shock', 'drug', 'airway', 'access'].includes(g.kind),
+    )) {
+      const lane = compact.lanes.find(
+        (l) =>
+          (g.kind === 'access'
+            ? 'airway'
+            : g.kind === 'shock'
+              ? 'shocks'
+              : g.kind === 'drug'
+                ? 'drugs'
+                : g.kind) === l.key,
+      )!;
+      for (const s of g.shapes)
+        if (s.type === 'text') expect(s.y, g.label).toBeLessThanOrEqual(lane.y + lane.h);
+    }
+  });
+
   it('fills a window from the arrest before it slides, on a code still running', () => {
     const tl = fold([cprStart(t(0, 5)), rhythm(t(2, 0), 'asystole'), epi(t(3, 0))]);
     const p = codePicture(tl, { width: 600, lastMs: t(10, 0), nowMs: abs(t(4, 0)) });

@@ -114,7 +114,7 @@ export interface CodePictureOptions {
   scale?: number;
   /** Put each entry's id on its mark (for hover and tap). */
   entryIds?: boolean;
-  /** Lanes 15% lower, labels in fewer rows: the wall, where height is short. */
+  /** Lanes a quarter lower, labels in fewer rows: the wall, where height is short. */
   compact?: boolean;
 }
 
@@ -193,7 +193,7 @@ class LabelRows {
 
 export function codePicture(timeline: Timeline, options: CodePictureOptions): CodePicture {
   const scale = options.scale ?? 1;
-  const density = options.compact ? 0.85 : 1;
+  const density = options.compact ? 0.75 : 1;
   const size = 10 * scale;
   const small = 9 * scale;
   const width = options.width;

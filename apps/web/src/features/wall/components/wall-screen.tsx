@@ -192,14 +192,14 @@ function Wall({
         recent={
           picture ? (
             <WallBox testId="wall-picture">
-              <PanelLabel>Last 10 minutes</PanelLabel>
               <CodePictureView
                 timeline={timeline}
                 entries={entries}
                 protocol={protocol}
                 lastMs={WALL_PICTURE_MS}
                 nowMs={nowMs}
-                scale={1.5}
+                // A child's wall gives the doses the wide column: a smaller picture fits the other.
+                scale={code.category === 'pediatric' ? 1.25 : 1.5}
                 compact
                 inverse
                 interactive={false}
