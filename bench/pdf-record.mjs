@@ -1,7 +1,7 @@
 #!/usr/bin/env node
 // Time to make the PDF record of a 90-minute code with 600 entries, beside its floor, in one run.
 //
-//   node bench/pdf-record.mjs [--runs 15] [--warmup 2]
+//   node bench/pdf-record.mjs [--runs 15] [--warmup 2] [--parts]
 //
 // Uses the built server modules (apps/server/dist; build the shared package and the server
 // first). "record" is what GET /api/codes/:id/record.pdf does after reading the database: the
@@ -25,7 +25,7 @@ const DIST = path.join(ROOT, 'apps/server/dist/records');
 const require = createRequire(path.join(ROOT, 'apps/server/package.json'));
 
 const { values: args } = parseArgs({
-  options: { runs: { type: 'string', default: '15' }, warmup: { type: 'string', default: '2' } },
+  options: { runs: { type: 'string', default: '15' }, warmup: { type: 'string', default: '2' }, parts: { type: 'boolean', default: false } },
 });
 const RUNS = Number(args.runs);
 const WARMUP = Number(args.warmup);
@@ -34,7 +34,7 @@ const { buildRecordPdf, renderPdf, describeEntry, sinceArrest } = await import(p
 const { recordDigest, pdfStampText, formatPdfStamp, RECORD_FORMAT } = await import(pathToFileURL(path.join(DIST, 'record-canonical.js')).href);
 const { CHAIN_START, entryLinkHash } = await import(pathToFileURL(path.join(DIST, '../codes/entry-chain.js')).href);
 const shared = await import(pathToFileURL(require.resolve('@steadyhand/shared')).href);
-const { DEFAULT_PROTOCOL, summarizeLog, effectiveEntries } = shared;
+const { DEFAULT_PROTOCOL, foldLog, summarize, effectiveEntries, codePicture, codePictureSvg } = shared;
 
 // --- a 90-minute code with 600 entries ---------------------------------------------------------
 
@@ -104,12 +104,13 @@ const keyId = createHash('sha256').update(publicKey.export({ format: 'der', type
 
 async function recordPdf() {
   const digest = recordDigest(record);
-  const summary = summarizeLog(record.code, record.entries, DEFAULT_PROTOCOL);
+  const timeline = foldLog(record.code, record.entries, DEFAULT_PROTOCOL);
+  const summary = summarize(timeline);
   const generatedAt = new Date().toISOString();
   const signature = sign(null, Buffer.from(pdfStampText({ recordId: record.code.id, digest, generatedAt })), privateKey).toString('base64url');
   return renderPdf(
     buildRecordPdf({
-      record, digest, chain, integrity: { valid: true, problems: [] }, status: 'draft', summary, settings: DEFAULT_PROTOCOL, signatures: [], people, timeZone: 'UTC', generatedAt, keyId,
+      record, digest, chain, integrity: { valid: true, problems: [] }, status: 'draft', summary, timeline, settings: DEFAULT_PROTOCOL, signatures: [], people, timeZone: 'UTC', generatedAt, keyId,
       stamp: formatPdfStamp({ recordId: record.code.id, digest, signature, generatedAt, keyId }),
     }),
   );
@@ -122,16 +123,28 @@ const font = (w) => require.resolve(`@fontsource/atkinson-hyperlegible/files/atk
 bare.addFonts({ Atkinson: { normal: font(400), bold: font(700), italics: font(400), bolditalics: font(700) } });
 bare.setUrlAccessPolicy(() => false);
 bare.setLocalAccessPolicy(() => true);
+// The same floor with the fonts prepared as the record prepares them (unpacked once, in memory):
+// shown beside the plain floor so the gain from the fonts is not hidden in the ratio.
+const { woffToSfnt } = await import(pathToFileURL(path.join(DIST, 'pdf-fonts.js')).href);
+const { readFileSync } = await import('node:fs');
+const bareFonts = new sharedPdfmake.constructor();
+bareFonts.virtualfs.writeFileSync('AtkinsonHyperlegible-Regular', woffToSfnt(readFileSync(font(400))));
+bareFonts.virtualfs.writeFileSync('AtkinsonHyperlegible-Bold', woffToSfnt(readFileSync(font(700))));
+bareFonts.addFonts({ Atkinson: { normal: 'AtkinsonHyperlegible-Regular', bold: 'AtkinsonHyperlegible-Bold', italics: 'AtkinsonHyperlegible-Regular', bolditalics: 'AtkinsonHyperlegible-Bold' } });
+bareFonts.setUrlAccessPolicy(() => false);
+bareFonts.setLocalAccessPolicy(() => false);
 const clock = new Intl.DateTimeFormat('en-GB', { timeZone: 'UTC', hour: '2-digit', minute: '2-digit', second: '2-digit', hourCycle: 'h23' });
 const rows = effectiveEntries(record.entries).map((e) => {
   const d = describeEntry(e, DEFAULT_PROTOCOL);
   return [clock.format(new Date(e.at)), sinceArrest((Date.parse(e.at) - ARREST_MS) / 1000), d.what, d.details, people.get(e.userId) ?? '', e.deviceId ?? ''];
 });
-function barePdf() {
-  return bare
+// The same picture, laid out once outside the timing: the floor pays only for drawing it.
+const pictureSvg = codePictureSvg(codePicture(foldLog(record.code, record.entries, DEFAULT_PROTOCOL), { width: 523, scale: 0.85 }), { font: 'Atkinson' });
+function barePdf(instance = bare) {
+  return instance
     .createPdf({
       pageSize: 'A4',
-      content: [{ table: { headerRows: 1, widths: [46, 44, 90, '*', 82, 50], body: [['Clock time', 'Since arrest', 'What', 'Details', 'Recorded by', 'Device'], ...rows] }, fontSize: 8 }],
+      content: [{ svg: pictureSvg, width: 523 }, { table: { headerRows: 1, widths: [46, 44, 90, '*', 82, 50], body: [['Clock time', 'Since arrest', 'What', 'Details', 'Recorded by', 'Device'], ...rows] }, fontSize: 8 }],
       defaultStyle: { font: 'Atkinson', fontSize: 9 },
     })
     .getBuffer();
@@ -139,16 +152,26 @@ function barePdf() {
 
 // --- run ---------------------------------------------------------------------------------------
 
-const timings = { record: [], bare: [] };
-let pages = { record: 0, bare: 0 };
+const timings = { record: [], bare: [], bareFonts: [] };
+const cpuTimes = { record: [], bare: [], bareFonts: [] };
+const bytes = { record: 0, bare: 0, bareFonts: 0 };
+let pages = { record: 0, bare: 0, bareFonts: 0 };
+const bareFontsPdf = () => barePdf(bareFonts);
 const pageCount = (buf) => (buf.toString('latin1').match(/\/Type \/Page\b/g) ?? []).length;
 for (let i = 0; i < WARMUP + RUNS; i++) {
-  for (const [name, fn] of i % 2 ? [['bare', barePdf], ['record', recordPdf]] : [['record', recordPdf], ['bare', barePdf]]) {
+  const order = [['record', recordPdf], ['bare', () => barePdf()], ['bareFonts', bareFontsPdf]];
+  for (const [name, fn] of i % 2 ? order.reverse() : order) {
+    const c0 = process.cpuUsage();
     const t0 = performance.now();
     const buf = await fn();
     const ms = performance.now() - t0;
-    if (i >= WARMUP) timings[name].push(ms);
+    const c = process.cpuUsage(c0);
+    if (i >= WARMUP) {
+      timings[name].push(ms);
+      cpuTimes[name].push((c.user + c.system) / 1000);
+    }
     pages[name] = pageCount(buf);
+    bytes[name] = buf.length;
   }
 }
 
@@ -168,19 +191,73 @@ const result = {
   durationMinutes: (Date.parse(record.code.endedAt) - ARREST_MS) / 60000,
   runs: RUNS,
   warmup: WARMUP,
-  record: { medianMs: quantile(timings.record, 0.5), p90Ms: quantile(timings.record, 0.9), pages: pages.record },
-  bare: { medianMs: quantile(timings.bare, 0.5), p90Ms: quantile(timings.bare, 0.9), pages: pages.bare },
+  loadAverage: os.loadavg().map((l) => Math.round(l * 100) / 100),
+  record: { medianMs: quantile(timings.record, 0.5), p90Ms: quantile(timings.record, 0.9), cpuMedianMs: quantile(cpuTimes.record, 0.5), pages: pages.record, bytes: bytes.record },
+  bare: { medianMs: quantile(timings.bare, 0.5), p90Ms: quantile(timings.bare, 0.9), cpuMedianMs: quantile(cpuTimes.bare, 0.5), pages: pages.bare, bytes: bytes.bare },
+  bareFonts: { medianMs: quantile(timings.bareFonts, 0.5), p90Ms: quantile(timings.bareFonts, 0.9), cpuMedianMs: quantile(cpuTimes.bareFonts, 0.5), pages: pages.bareFonts, bytes: bytes.bareFonts },
 };
 
 print(`PDF record of a ${result.durationMinutes}-minute code with ${result.entries} entries, ${RUNS} runs (+${WARMUP} warm-up)`);
-print(`machine: ${machine}`);
+print(`machine: ${machine}, load average ${result.loadAverage.join(' ')}`);
 print('');
-print('| document | median ms | p90 ms | pages |');
-print('| --- | ---: | ---: | ---: |');
-for (const name of ['record', 'bare']) {
+print('| document | median ms | p90 ms | CPU median ms | pages | bytes |');
+print('| --- | ---: | ---: | ---: | ---: | ---: |');
+const LABELS = {
+  record: 'record PDF (digest, fold, summary, picture, stamp, layout, render)',
+  bare: 'bare pdfmake, same picture and timeline table (font files as shipped)',
+  bareFonts: 'the same bare document, fonts prepared as the record does',
+};
+for (const name of ['record', 'bare', 'bareFonts']) {
   const r = result[name];
-  const label = name === 'record' ? 'record PDF (digest, summary, stamp, layout, render)' : 'bare pdfmake, same timeline table';
-  print(`| ${label} | ${r.medianMs.toFixed(0)} | ${r.p90Ms.toFixed(0)} | ${r.pages} |`);
+  const label = LABELS[name];
+  print(`| ${label} | ${r.medianMs.toFixed(0)} | ${r.p90Ms.toFixed(0)} | ${r.cpuMedianMs.toFixed(0)} | ${r.pages} | ${r.bytes} |`);
+}
+print(`record / bare (median wall, median CPU): ${(result.record.medianMs / result.bare.medianMs).toFixed(2)}x, ${(result.record.cpuMedianMs / result.bare.cpuMedianMs).toFixed(2)}x`);
+print(`record / bare with prepared fonts:        ${(result.record.medianMs / result.bareFonts.medianMs).toFixed(2)}x, ${(result.record.cpuMedianMs / result.bareFonts.cpuMedianMs).toFixed(2)}x`);
+
+// --- where the time goes (--parts): each step of the record alone, CPU ms, median ---------------
+if (args.parts) {
+  const med = (f) => {
+    const xs = [];
+    for (let i = 0; i < RUNS; i++) {
+      const c0 = process.cpuUsage();
+      f();
+      const c = process.cpuUsage(c0);
+      xs.push((c.user + c.system) / 1000);
+    }
+    return quantile(xs, 0.5);
+  };
+  const medAsync = async (f) => {
+    const xs = [];
+    for (let i = 0; i < RUNS; i++) {
+      const c0 = process.cpuUsage();
+      await f();
+      const c = process.cpuUsage(c0);
+      xs.push((c.user + c.system) / 1000);
+    }
+    return quantile(xs, 0.5);
+  };
+  const digest = recordDigest(record);
+  const timeline = foldLog(record.code, record.entries, DEFAULT_PROTOCOL);
+  const summary = summarize(timeline);
+  const generatedAt = new Date().toISOString();
+  const input = { record, digest, chain, integrity: { valid: true, problems: [] }, status: 'draft', summary, timeline, settings: DEFAULT_PROTOCOL, signatures: [], people, timeZone: 'UTC', generatedAt, keyId, stamp: 'x' };
+  const def = () => buildRecordPdf(input);
+  const without = (change) => async () => renderPdf(change(def()));
+  const rows = [
+    ['digest (RFC 8785 + SHA-256)', med(() => recordDigest(record))],
+    ['fold + summary', med(() => summarize(foldLog(record.code, record.entries, DEFAULT_PROTOCOL)))],
+    ['build the definition (picture layout included)', med(def)],
+    ['render, whole record', await medAsync(without((d) => d))],
+    ['render, no header and footer', await medAsync(without((d) => ({ ...d, header: undefined, footer: undefined })))],
+    ['render, no watermark', await medAsync(without((d) => ({ ...d, watermark: undefined })))],
+    ['render, no picture', await medAsync(without((d) => ({ ...d, content: d.content.filter((c) => !(c && typeof c === 'object' && 'svg' in c)) })))],
+    ['bare, picture only', await medAsync(() => bare.createPdf({ pageSize: 'A4', content: [{ svg: pictureSvg, width: 523 }], defaultStyle: { font: 'Atkinson' } }).getBuffer())],
+  ];
+  print('');
+  print('| step (CPU ms, median) | ms |');
+  print('| --- | ---: |');
+  for (const [label, ms] of rows) print(`| ${label} | ${ms.toFixed(1)} |`);
 }
 
 mkdirSync(path.join(ROOT, 'bench/results'), { recursive: true });

@@ -52,6 +52,12 @@ function pdfText(bytes: Buffer): string {
   writeFileSync(file, bytes);
   return execFileSync('/usr/bin/pdftotext', ['-layout', file, '-'], { encoding: 'utf8' });
 }
+/** The text of page 1 alone. */
+function firstPageText(bytes: Buffer): string {
+  const file = path.join(workDir, `record-${++pdfCount}.pdf`);
+  writeFileSync(file, bytes);
+  return execFileSync('/usr/bin/pdftotext', ['-f', '1', '-l', '1', '-layout', file, '-'], { encoding: 'utf8' });
+}
 
 describe('the signed record', () => {
   let app: TestApp;
@@ -307,6 +313,16 @@ describe('the signed record', () => {
     const pages = Number(/Page 1 of (\d+)/.exec(draft)![1]);
     expect(draft.split(digest).length - 1).toBeGreaterThanOrEqual(pages);
     expect(draft.split('DRAFT — not signed').length - 1).toBeGreaterThanOrEqual(pages);
+    // Page 1 carries the picture of the code as vector text and shapes: lanes, axis, marks.
+    const first = firstPageText(draftBytes);
+    for (const label of ['The code at a glance', 'Compressions', 'Rhythm checks', 'Shocks', 'Drugs', 'Airway, access', 'ETCO2', 'ROSC', 'Arrest', 'End', 'min from arrest', 'VF', '200 J', 'Epinephrine 1 mg']) {
+      expect(first, label).toContain(label);
+    }
+    // Each font embedded once, the picture's labels included (a second copy would be a second subset).
+    const fonts = execFileSync('/usr/bin/pdffonts', [path.join(workDir, `record-${pdfCount}.pdf`)], { encoding: 'utf8' }).trim().split('\n').slice(2);
+    expect(fonts.map((l) => l.split(/\s+/)[0]?.replace(/^[A-Z]{6}\+/, '')).sort()).toEqual(['AtkinsonHyperlegible-Bold', 'AtkinsonHyperlegible-Regular']);
+    // Drawn as vector: no image on page 1.
+    expect(execFileSync('/usr/bin/pdfimages', ['-f', '1', '-l', '1', '-list', path.join(workDir, `record-${pdfCount}.pdf`)], { encoding: 'utf8' }).trim().split('\n')).toHaveLength(2);
 
     await sign(recorder, id, 'recorded-by').expect(201);
     await sign(leader, id, 'reviewed-confirmed').expect(201);

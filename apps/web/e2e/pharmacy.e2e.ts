@@ -114,6 +114,15 @@ describe('pharmacy reconciliation, in Chromium', () => {
     expect(await page.getByTestId('live-summary').innerText()).toContain(
       '1 drug with a discrepancy',
     );
+    // One compact row per drug; the explanation sits under a row only when it does not balance.
+    expect(await page.getByTestId('explanation-epinephrine').innerText()).toMatch(/Given more than opened: .+/);
+    expect(await page.getByTestId('explanation-amiodarone').count()).toBe(0);
+    const heights = await page
+      .getByTestId('reconciliation-table')
+      .locator('tbody[data-flagged="false"]')
+      .evaluateAll((bodies) => bodies.map((b) => b.getBoundingClientRect().height));
+    expect(heights.length).toBeGreaterThanOrEqual(3);
+    expect(Math.max(...heights)).toBeLessThan(120);
     await page.getByTestId('save-reconciliation').click();
     await expect
       .poll(() => page.getByTestId('reconciliation-status').innerText(), { timeout: 10_000 })
@@ -128,6 +137,7 @@ describe('pharmacy reconciliation, in Chromium', () => {
     expect(await page.getByTestId('live-summary').innerText()).toContain(
       'Every drug given is accounted for',
     );
+    expect(await page.getByTestId('explanation-epinephrine').count()).toBe(0);
 
     await page.getByTestId('open-sign-off').click();
     const dialog = page.getByTestId('sign-off-dialog');

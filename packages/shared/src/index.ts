@@ -11,6 +11,7 @@ export * from './timeline.js';
 export * from './code-state.js';
 export * from './summary.js';
 export * from './state-words.js';
+export * from './code-picture.js';
 export * from './weight-estimate.js';
 export * from './clock.js';
 export * from './admin.js';

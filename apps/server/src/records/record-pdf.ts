@@ -1,7 +1,10 @@
+import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
-import path from 'node:path';
 import {
+  codePicture,
+  codePictureSvg,
   effectiveEntries,
+  foldLog,
   flaggedDoseText,
   resolveDrug,
   SIGNATURE_MEANING_TEXT,
@@ -20,27 +23,40 @@ import {
   type RecordSignature,
   type RecordStatus,
   type SummaryMetric,
+  type Timeline,
   type UtsteinDetails,
   type UtsteinField,
 } from '@steadyhand/shared';
 import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interfaces.js';
+import { woffToSfnt } from './pdf-fonts.js';
 import type { CanonicalRecord } from './record-canonical.js';
 
 // pdfmake 0.3 is CommonJS and keeps its settings on one shared instance.
 const require = createRequire(import.meta.url);
-const pdfmake = require('pdfmake') as typeof import('pdfmake');
+const pdfmake = require('pdfmake') as typeof import('pdfmake') & {
+  /** pdfmake's in-memory files (base.js), read before the disk; missing from @types/pdfmake. */
+  virtualfs: { writeFileSync(name: string, content: Buffer): void };
+};
 
 const FONT_REGULAR = require.resolve('@fontsource/atkinson-hyperlegible/files/atkinson-hyperlegible-latin-400-normal.woff');
 const FONT_BOLD = require.resolve('@fontsource/atkinson-hyperlegible/files/atkinson-hyperlegible-latin-700-normal.woff');
-const FONT_FILES = new Set([FONT_REGULAR, FONT_BOLD].map((f) => path.resolve(f)));
+/**
+ * The fonts' PostScript names. pdfkit keeps each opened font under its PostScript name, so the
+ * picture's SVG text, which asks for the font by the name pdfmake was given, finds the font
+ * already open instead of reading and parsing the file again for every label.
+ */
+const REGULAR = 'AtkinsonHyperlegible-Regular';
+const BOLD = 'AtkinsonHyperlegible-Bold';
 
 let configured = false;
-/** Once per process: our font, no network, and no file but the two font files. */
+/** Once per process: our font unpacked in memory, no network and no file access. */
 function configurePdfmake(): void {
   if (configured) return;
-  pdfmake.addFonts({ Atkinson: { normal: FONT_REGULAR, bold: FONT_BOLD, italics: FONT_REGULAR, bolditalics: FONT_BOLD } });
+  pdfmake.virtualfs.writeFileSync(REGULAR, woffToSfnt(readFileSync(FONT_REGULAR)));
+  pdfmake.virtualfs.writeFileSync(BOLD, woffToSfnt(readFileSync(FONT_BOLD)));
+  pdfmake.addFonts({ Atkinson: { normal: REGULAR, bold: BOLD, italics: REGULAR, bolditalics: BOLD } });
   pdfmake.setUrlAccessPolicy(() => false);
-  pdfmake.setLocalAccessPolicy((file) => FONT_FILES.has(path.resolve(file)));
+  pdfmake.setLocalAccessPolicy(() => false);
   configured = true;
 }
 
@@ -58,6 +74,8 @@ export interface RecordPdfInput {
   integrity: RecordIntegrity;
   status: RecordStatus;
   summary: CodeSummary;
+  /** The fold the summary was read from; folded here when absent. */
+  timeline?: Timeline;
   settings: ProtocolSettings;
   signatures: RecordSignature[];
   /** userId → printed name, for the "recorded by" column (an entry's own kept name comes first). */
@@ -282,6 +300,11 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
   const location = code.location ?? 'Location not recorded';
   const category = code.category === 'pediatric' ? 'Pediatric' : 'Adult';
   const weight = code.weightKg !== null ? `${num(code.weightKg)} kg` : 'weight not recorded';
+
+  // --- the picture: vector, from the same fold as the summary ---
+  const folded = input.timeline ?? foldLog(code, record.entries, settings);
+  const pictureWidth = 523; // A4 less the side margins
+  const picture: Content = { svg: codePictureSvg(codePicture(folded, { width: pictureWidth, scale: 0.85 }), { font: 'Atkinson' }), width: pictureWidth };
 
   // --- summary ---
   const timePoints: [string, string | null, number | null][] = [
@@ -534,6 +557,13 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
       ['Record id', code.id],
       ['Copy made', `${clock.dateTime(input.generatedAt)} ${clock.zone}, stamped with server key ${input.keyId}`],
     ]),
+    heading('The code at a glance'),
+    picture,
+    {
+      text: 'Minutes from the arrest. Bars: compressions; hatched box: a pause over the warning, with its seconds; square: rhythm check; triangle: shock (hollow: synchronised); diamond: drug; circle: airway; cross: access; line: ETCO2 (mmHg); * corrected after recording.',
+      style: 'legend',
+      margin: [0, 2, 0, 0],
+    },
     heading('Summary'),
     timeTable,
     { text: '', margin: [0, 4, 0, 0] },

@@ -445,6 +445,7 @@ export class RecordsService implements OnModuleInit {
       integrity: view.integrity,
       status: view.status,
       summary,
+      timeline,
       settings,
       signatures: view.signatures,
       people: this.peopleOf(record),

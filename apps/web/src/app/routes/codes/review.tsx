@@ -2,6 +2,7 @@ import { Alert, Box, Button, Heading, HStack, SimpleGrid, Stack, Text } from '@c
 import { effectiveUtstein, hasAnyRole, WRITER_ROLES } from '@steadyhand/shared';
 import { useState } from 'react';
 import { Link as RouterLink, useParams } from 'react-router';
+import { RecordPicture } from '../../../components/code-picture';
 import { SummaryFacts } from '../../../components/summary-facts';
 import { ErrorMessage } from '../../../components/ui/error-message';
 import { PageSpinner } from '../../../components/ui/page-status';
@@ -88,6 +89,15 @@ function CodeReview({ codeId }: { codeId: string }) {
           <Text role="status">Loading the summary…</Text>
         )}
       </Box>
+
+      {protocol.data ? (
+        <Stack as="section" gap="3" aria-labelledby="picture-heading" data-testid="review-picture">
+          <Heading as="h2" id="picture-heading" textStyle="2xl">
+            The code at a glance
+          </Heading>
+          <RecordPicture record={record} people={view.data.people} protocol={protocol.data} />
+        </Stack>
+      ) : null}
 
       <Stack as="section" gap="4" aria-labelledby="timeline-heading">
         <Heading as="h2" id="timeline-heading" textStyle="2xl">

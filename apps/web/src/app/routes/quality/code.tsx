@@ -1,18 +1,30 @@
 import { Box, Button, Heading, HStack, List, SimpleGrid, Stack, Text } from '@chakra-ui/react';
 import { SIGNATURE_MEANING_TEXT, type SignatureMeaning } from '@steadyhand/shared';
 import { Link as RouterLink, useParams } from 'react-router';
+import { RecordPicture } from '../../../components/code-picture';
 import { SummaryFacts } from '../../../components/summary-facts';
 import { ErrorMessage } from '../../../components/ui/error-message';
 import { PageSpinner } from '../../../components/ui/page-status';
 import { PageTitle } from '../../../components/ui/page-title';
 import { paths } from '../../../config/paths';
 import { useQualityCode } from '../../../features/quality/api/get-quality-code';
+import { useRecordView } from '../../../features/records/api/records-api';
+import { useCodeProtocol } from '../../../lib/protocol';
 import { FollowUpPanel } from '../../../features/quality/components/follow-up-panel';
 import { QualityGate } from '../../../features/quality/components/quality-gate';
 import { RegistrySummary } from '../../../features/quality/components/registry-summary';
 import { ReviewPanel } from '../../../features/quality/components/review-panel';
 import { TargetList } from '../../../features/quality/components/target-list';
 import { formatDateTime } from '../../../features/quality/components/words';
+
+/** The picture from the record's own log, folded with the code's protocol version. */
+function QualityPicture({ codeId }: { codeId: string }) {
+  const view = useRecordView(codeId);
+  const protocol = useCodeProtocol(view.data ? (view.data.record.code.protocolVersion ?? null) : undefined);
+  if (view.isError) return <ErrorMessage message={view.error.message} />;
+  if (!view.data || !protocol.data) return <Text role="status">Loading the picture…</Text>;
+  return <RecordPicture record={view.data.record} people={view.data.people} protocol={protocol.data} />;
+}
 
 function QualityCode({ codeId }: { codeId: string }) {
   const query = useQualityCode(codeId);
@@ -40,6 +52,13 @@ function QualityCode({ codeId }: { codeId: string }) {
           Summary from the record
         </Heading>
         <SummaryFacts summary={summary} />
+      </Box>
+
+      <Box as="section" aria-labelledby="picture-heading" data-testid="quality-picture">
+        <Heading as="h2" id="picture-heading" textStyle="2xl" mb="4">
+          The code at a glance
+        </Heading>
+        <QualityPicture codeId={code.id} />
       </Box>
 
       <Box as="section" aria-labelledby="targets-heading">

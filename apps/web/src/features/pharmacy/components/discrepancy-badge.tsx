@@ -13,7 +13,8 @@ function lookOf(d: Discrepancy) {
   return d.kind === 'balanced' ? LOOK.ok : LOOK.info;
 }
 
-export function DiscrepancyList({ discrepancies, testId }: { discrepancies: Discrepancy[]; testId?: string }) {
+/** Each discrepancy by shape, word and colour; `compact` leaves the explanation to the line under a table row. */
+export function DiscrepancyList({ discrepancies, testId, compact }: { discrepancies: Discrepancy[]; testId?: string; compact?: boolean }) {
   return (
     <Stack gap="1" data-testid={testId}>
       {discrepancies.map((d) => {
@@ -28,7 +29,7 @@ export function DiscrepancyList({ discrepancies, testId }: { discrepancies: Disc
                 {DISCREPANCY_WORDS[d.kind]}
               </Text>
             </HStack>
-            {d.kind !== 'balanced' ? <Text textStyle="sm">{d.message}</Text> : null}
+            {d.kind !== 'balanced' && !compact ? <Text textStyle="sm">{d.message}</Text> : null}
           </Box>
         );
       })}

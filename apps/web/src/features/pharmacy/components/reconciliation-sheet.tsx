@@ -1,6 +1,7 @@
-import { Alert, Badge, Box, Button, Field, Flex, Grid, Heading, HStack, Input, NativeSelect, Stack, Text, Textarea, Wrap } from '@chakra-ui/react';
+import { Alert, Badge, Box, Button, Field, Flex, Heading, HStack, Input, NativeSelect, Stack, Table, Text, Textarea, Wrap } from '@chakra-ui/react';
 import { zodResolver } from '@hookform/resolvers/zod';
 import {
+  DISCREPANCY_WORDS,
   formatAmount,
   reconcileDrugs,
   reconciliationCounts,
@@ -11,7 +12,7 @@ import {
   type ReconciliationView,
   textSchema,
 } from '@steadyhand/shared';
-import { useMemo, useState } from 'react';
+import { useMemo, useState, type ReactNode } from 'react';
 import { useForm, useWatch, type UseFormRegister } from 'react-hook-form';
 import { z } from 'zod';
 import { ErrorMessage } from '../../../components/ui/error-message';
@@ -180,14 +181,14 @@ function DraftSheet({ view, settings }: { view: ReconciliationView; settings: Pr
               : 'Every drug given is accounted for.'}
           </Alert.Title>
         </Alert.Root>
-        <Stack gap="3">
-          {defaults.lines.map((line, index) => {
-            const row = liveByKey.get(line.drugKey);
+        <ReconciliationTable rows={defaults.lines.flatMap((line) => liveByKey.get(line.drugKey) ?? [])}>
+          {(row) => {
+            const index = defaults.lines.findIndex((l) => l.drugKey === row.drugKey);
             const error = form.formState.errors.lines?.[index];
             const errors = { unitsOpened: error?.unitsOpened?.message, unitsWasted: error?.unitsWasted?.message };
-            return row ? <DrugRow key={line.drugKey} row={row} index={index} register={form.register} errors={errors} /> : null;
-          })}
-        </Stack>
+            return <DrugRow key={row.drugKey} row={row} index={index} register={form.register} errors={errors} />;
+          }}
+        </ReconciliationTable>
         <Field.Root>
           <Field.Label>Notes</Field.Label>
           <Textarea {...form.register('notes')} rows={3} placeholder="Where a discrepancy came from, who was told, what was done" />
@@ -216,65 +217,107 @@ interface DrugRowProps {
   errors: { unitsOpened?: string | undefined; unitsWasted?: string | undefined };
 }
 
+/** Problems worth an explanation: anything but "balanced" (which needs no words). */
+const explained = (row: ReconciledDrug) => row.discrepancies.filter((d) => d.kind !== 'balanced');
+
+/**
+ * One compact row per drug: given, opened, wasted, witness, lots, status. The explanation goes on
+ * a line under the row only when something does not balance.
+ */
+function ReconciliationTable({ rows, children }: { rows: ReconciledDrug[]; children: (row: ReconciledDrug, index: number) => ReactNode }) {
+  return (
+    <Table.ScrollArea whiteSpace="normal" borderWidth="1px" borderRadius="l2">
+      <Table.Root size="sm" data-testid="reconciliation-table" css={{ '& td, & th': { verticalAlign: 'top', overflowWrap: 'anywhere' } }}>
+        <Table.Header>
+          <Table.Row>
+            <Table.ColumnHeader>Drug</Table.ColumnHeader>
+            <Table.ColumnHeader>Given (record)</Table.ColumnHeader>
+            <Table.ColumnHeader w="6rem">Opened</Table.ColumnHeader>
+            <Table.ColumnHeader w="6rem">Wasted</Table.ColumnHeader>
+            <Table.ColumnHeader>Waste witness</Table.ColumnHeader>
+            <Table.ColumnHeader>Lots</Table.ColumnHeader>
+            <Table.ColumnHeader>Status</Table.ColumnHeader>
+          </Table.Row>
+        </Table.Header>
+        {rows.map((row, i) => children(row, i))}
+      </Table.Root>
+    </Table.ScrollArea>
+  );
+}
+
+/** The drug's own cell: name, controlled, strength and what the tray holds, its lot. */
+function DrugCell({ row, flagColor }: { row: ReconciledDrug; flagColor: string }) {
+  return (
+    <Table.Cell borderLeftWidth="6px" borderLeftColor={flagColor}>
+      <HStack gap="2" wrap="wrap">
+        <Heading as="h3" textStyle="md">
+          {row.label}
+        </Heading>
+        {row.controlled ? (
+          <Badge colorPalette="purple" variant="solid">
+            Controlled
+          </Badge>
+        ) : null}
+      </HStack>
+      <Text color="fg.muted" textStyle="sm">
+        {row.strength ? `${row.strength} · tray holds ${row.par ?? 0}` : 'Not on this tray'}
+      </Text>
+      <TrayLot row={row} />
+    </Table.Cell>
+  );
+}
+
+/** The line under a drug that does not balance: what is wrong, in words. */
+function ExplanationRow({ row }: { row: ReconciledDrug }) {
+  const problems = explained(row);
+  if (problems.length === 0) return null;
+  return (
+    <Table.Row data-testid={`explanation-${row.drugKey}`}>
+      <Table.Cell colSpan={7} pt="0" borderLeftWidth="6px" borderLeftColor="red.solid">
+        <Stack gap="0.5">
+          {problems.map((d) => (
+            <Text key={d.kind} textStyle="sm">
+              <strong>{DISCREPANCY_WORDS[d.kind]}:</strong> {d.message}
+            </Text>
+          ))}
+        </Stack>
+      </Table.Cell>
+    </Table.Row>
+  );
+}
+
 function DrugRow({ row, index, register, errors }: DrugRowProps) {
   const label = row.label;
+  const flaggedLeft = row.flagged ? 'red.solid' : row.touched ? 'green.solid' : 'border';
   return (
-    <Box
-      as="section"
-      aria-label={label}
-      data-testid={`drug-row-${row.drugKey}`}
-      data-flagged={row.flagged}
-      borderWidth="1px"
-      borderLeftWidth="6px"
-      borderLeftColor={row.flagged ? 'red.solid' : row.touched ? 'green.solid' : 'border'}
-      borderRadius="l2"
-      p="4"
-      bg="bg.panel"
-    >
-      <Grid templateColumns={{ base: '1fr', lg: '1.3fr 2.2fr 1.5fr' }} gap="4" alignItems="start">
-        <Stack gap="1">
-          <HStack gap="2" wrap="wrap">
-            <Heading as="h3" textStyle="lg">
-              {label}
-            </Heading>
-            {row.controlled ? (
-              <Badge colorPalette="purple" variant="solid">
-                Controlled
-              </Badge>
-            ) : null}
-          </HStack>
-          <Text color="fg.muted">{row.strength ? `${row.strength} · tray holds ${row.par ?? 0}` : 'Not on this tray'}</Text>
-          <TrayLot row={row} />
-          <Text data-testid={`given-${row.drugKey}`}>
-            <Text as="span" fontWeight="bold">
-              Given:{' '}
-            </Text>
-            {givenWords(row)}
-          </Text>
-        </Stack>
-        <Grid templateColumns="repeat(2, 1fr)" gap="3">
+    <Table.Body data-testid={`drug-row-${row.drugKey}`} data-flagged={row.flagged} aria-label={label}>
+      <Table.Row>
+        <DrugCell row={row} flagColor={flaggedLeft} />
+        <Table.Cell data-testid={`given-${row.drugKey}`}>{givenWords(row)}</Table.Cell>
+        <Table.Cell>
           <Field.Root invalid={errors.unitsOpened !== undefined}>
-            <Field.Label>Units opened</Field.Label>
-            <Input type="number" inputMode="numeric" min={0} {...register(`lines.${index}.unitsOpened`, { valueAsNumber: true })} />
+            <Input size="sm" type="number" inputMode="numeric" min={0} aria-label={`${label}: units opened`} {...register(`lines.${index}.unitsOpened`, { valueAsNumber: true })} />
             <Field.ErrorText>{errors.unitsOpened}</Field.ErrorText>
           </Field.Root>
+        </Table.Cell>
+        <Table.Cell>
           <Field.Root invalid={errors.unitsWasted !== undefined}>
-            <Field.Label>Units wasted</Field.Label>
-            <Input type="number" inputMode="numeric" min={0} {...register(`lines.${index}.unitsWasted`, { valueAsNumber: true })} />
+            <Input size="sm" type="number" inputMode="numeric" min={0} aria-label={`${label}: units wasted`} {...register(`lines.${index}.unitsWasted`, { valueAsNumber: true })} />
             <Field.ErrorText>{errors.unitsWasted}</Field.ErrorText>
           </Field.Root>
-          <Field.Root>
-            <Field.Label>Waste witness{row.controlled ? ' (required)' : ''}</Field.Label>
-            <Input {...register(`lines.${index}.wasteWitness`)} autoComplete="off" />
-          </Field.Root>
-          <Field.Root>
-            <Field.Label>Lot numbers</Field.Label>
-            <Input {...register(`lines.${index}.lotNumbers`)} autoComplete="off" />
-          </Field.Root>
-        </Grid>
-        <DiscrepancyList discrepancies={row.discrepancies} testId={`discrepancies-${row.drugKey}`} />
-      </Grid>
-    </Box>
+        </Table.Cell>
+        <Table.Cell>
+          <Input size="sm" aria-label={`${label}: waste witness${row.controlled ? ' (required)' : ''}`} placeholder={row.controlled ? 'required' : undefined} {...register(`lines.${index}.wasteWitness`)} autoComplete="off" />
+        </Table.Cell>
+        <Table.Cell>
+          <Input size="sm" aria-label={`${label}: lot numbers`} {...register(`lines.${index}.lotNumbers`)} autoComplete="off" />
+        </Table.Cell>
+        <Table.Cell>
+          <DiscrepancyList discrepancies={row.discrepancies} testId={`discrepancies-${row.drugKey}`} compact />
+        </Table.Cell>
+      </Table.Row>
+      <ExplanationRow row={row} />
+    </Table.Body>
   );
 }
 
@@ -310,28 +353,24 @@ function SignedSheet({ view }: { view: ReconciliationView }) {
       {view.recordChanged ? (
         <ErrorMessage title="The record changed after sign-off" message="The drug totals in the record no longer match what was signed: check the record's addenda and add an addendum here." />
       ) : null}
-      <Stack gap="3">
-        {view.rows.map((row) => (
-          <Box key={row.drugKey} data-testid={`drug-row-${row.drugKey}`} borderWidth="1px" borderLeftWidth="6px" borderLeftColor={row.flagged ? 'red.solid' : 'green.solid'} borderRadius="l2" p="4">
-            <Grid templateColumns={{ base: '1fr', lg: '1.3fr 2.2fr 1.5fr' }} gap="4">
-              <Stack gap="1">
-                <Heading as="h3" textStyle="lg">
-                  {row.label} {row.controlled ? <Badge colorPalette="purple">Controlled</Badge> : null}
-                </Heading>
-                <Text color="fg.muted">{row.strength ?? 'Not on this tray'}</Text>
-                <TrayLot row={row} />
-                <Text>Given: {givenWords(row)}</Text>
-              </Stack>
-              <Text>
-                Opened {row.unitsOpened} · wasted {row.unitsWasted}
-                {row.wasteWitness ? ` (witness ${row.wasteWitness})` : ''}
-                {row.lotNumbers ? ` · lots ${row.lotNumbers}` : ''}
-              </Text>
-              <DiscrepancyList discrepancies={row.discrepancies} />
-            </Grid>
-          </Box>
-        ))}
-      </Stack>
+      <ReconciliationTable rows={view.rows}>
+        {(row) => (
+          <Table.Body key={row.drugKey} data-testid={`drug-row-${row.drugKey}`} data-flagged={row.flagged} aria-label={row.label}>
+            <Table.Row>
+              <DrugCell row={row} flagColor={row.flagged ? 'red.solid' : 'green.solid'} />
+              <Table.Cell data-testid={`given-${row.drugKey}`}>{givenWords(row)}</Table.Cell>
+              <Table.Cell>{row.unitsOpened}</Table.Cell>
+              <Table.Cell>{row.unitsWasted}</Table.Cell>
+              <Table.Cell>{row.wasteWitness ?? '—'}</Table.Cell>
+              <Table.Cell>{row.lotNumbers ?? '—'}</Table.Cell>
+              <Table.Cell>
+                <DiscrepancyList discrepancies={row.discrepancies} testId={`discrepancies-${row.drugKey}`} compact />
+              </Table.Cell>
+            </Table.Row>
+            <ExplanationRow row={row} />
+          </Table.Body>
+        )}
+      </ReconciliationTable>
       {view.notes ? (
         <Box>
           <Heading as="h3" textStyle="md">

@@ -14,7 +14,7 @@ export function FollowUpTable({
   hrefOf: (codeId: string) => string;
 }) {
   return (
-    <Table.ScrollArea borderWidth="1px" borderRadius="l2">
+    <Table.ScrollArea whiteSpace="normal" borderWidth="1px" borderRadius="l2">
       <Table.Root size="md" data-testid="follow-up-table">
         <Table.Header>
           <Table.Row>

@@ -142,7 +142,7 @@ export function OutcomeRates({ stats }: { stats: QualityStats }) {
             <Box aria-hidden="true" minH="300px">
               <RatesChart groups={p.groups} />
             </Box>
-            <Table.ScrollArea>
+            <Table.ScrollArea whiteSpace="normal">
               <RatesTable groups={p.groups} id={p.id} first={p.first} />
             </Table.ScrollArea>
           </SimpleGrid>

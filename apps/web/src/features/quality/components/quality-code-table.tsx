@@ -25,7 +25,7 @@ const COLUMNS: { field: QualitySortField; label: string; numeric?: boolean }[] =
 /** The reviewer's list: sortable headers (buttons, with aria-sort), one row per ended code. */
 export function QualityCodeTable({ items, sort, dir, onSort }: Props) {
   return (
-    <Table.ScrollArea borderWidth="1px" borderRadius="l2">
+    <Table.ScrollArea whiteSpace="normal" borderWidth="1px" borderRadius="l2">
       <Table.Root size="md" striped data-testid="quality-table">
         <Table.Header>
           <Table.Row>

@@ -28,7 +28,7 @@ function ChartWithTable({ title, id, chart, table, note }: { title: string; id: 
         <Box aria-hidden="true" minH="300px">
           {chart}
         </Box>
-        <Table.ScrollArea>{table}</Table.ScrollArea>
+        <Table.ScrollArea whiteSpace="normal">{table}</Table.ScrollArea>
       </SimpleGrid>
     </Box>
   );

@@ -40,8 +40,9 @@ export function RecordTimeline({ view, protocol, onCorrect }: RecordTimelineProp
   };
 
   return (
-    <Table.ScrollArea borderWidth="1px" borderRadius="l2">
-      <Table.Root size="md" interactive data-testid="record-timeline">
+    <Table.ScrollArea whiteSpace="normal" borderWidth="1px" borderRadius="l2">
+      {/* Long words and device ids wrap, so the table fits its frame from 1,280 px up. */}
+      <Table.Root size="md" interactive data-testid="record-timeline" css={{ '& td, & th': { overflowWrap: 'anywhere', px: '2.5' } }}>
         <Table.Header>
           <Table.Row>
             <Table.ColumnHeader w="7rem">Time</Table.ColumnHeader>
@@ -139,7 +140,7 @@ export function RecordTimeline({ view, protocol, onCorrect }: RecordTimelineProp
                 {onCorrect ? (
                   <Table.Cell>
                     {row.voided ? null : (
-                      <HStack gap="2">
+                      <Stack gap="2" align="stretch">
                         <Button
                           size="sm"
                           variant="outline"
@@ -157,7 +158,7 @@ export function RecordTimeline({ view, protocol, onCorrect }: RecordTimelineProp
                         >
                           Void
                         </Button>
-                      </HStack>
+                      </Stack>
                     )}
                   </Table.Cell>
                 ) : null}

@@ -10,7 +10,7 @@ import { RecordStatusBadge } from './record-status-badge';
 export function RecordsTable({ records, empty }: { records: RecordListItem[]; empty: string }) {
   if (records.length === 0) return <Text>{empty}</Text>;
   return (
-    <Table.ScrollArea borderWidth="1px" borderRadius="l2">
+    <Table.ScrollArea whiteSpace="normal" borderWidth="1px" borderRadius="l2">
       <Table.Root size="md" interactive data-testid="records-table">
         <Table.Header>
           <Table.Row>

@@ -23,8 +23,9 @@ import {
 } from '@steadyhand/shared';
 import { useQueryClient } from '@tanstack/react-query';
 import dayjs from 'dayjs';
-import { useEffect, useMemo, useRef, type ReactNode } from 'react';
+import { useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
 import { Link as RouterLink } from 'react-router';
+import { CodePictureView } from '../../../components/code-picture';
 import { Shape } from '../../../components/ui/shapes';
 import { paths } from '../../../config/paths';
 import { describeEntry, formatDose, OUTCOME_WORDS } from '../../../lib/live/entry-words';
@@ -38,6 +39,8 @@ import { FactBlock, PanelLabel, ReadingBlock, WallBox, WALL_TONES } from './wall
 
 /** The wall calls the link stale this long after the last word from the server (it pings every 4 s). */
 export const STALE_AFTER_MS = 9_000;
+/** The wall's picture shows this much of the code: the last two cycles and more. */
+const WALL_PICTURE_MS = 10 * 60_000;
 const WALL_RECENT = 6;
 export const PEDIATRIC_DOSE_CAUTION = 'Double-check every weight-based dose with a second person';
 
@@ -122,6 +125,8 @@ function Wall({
 
   const cue = useSoundCue(dueCueKeys(s));
   const link = linkReading(sync, nowMs, clock.offsetMs);
+  // The picture of the last 10 minutes takes the place of the last entries when the leader asks.
+  const [picture, setPicture] = useState(false);
 
   return (
     <Stack gap="3" p="4" minH="100dvh" data-testid="wall" data-code-id={code.id} data-stale={String(link.stale)} fontFamily="body">
@@ -143,6 +148,18 @@ function Wall({
             data-testid="wall-sound"
           >
             Sound cue: {cue.on ? 'on' : 'off'}
+          </Button>
+          <Button
+            size="lg"
+            variant={picture ? 'solid' : 'outline'}
+            colorPalette="brand"
+            color="white"
+            borderColor="ink.300"
+            onClick={() => setPicture((p) => !p)}
+            aria-pressed={picture}
+            data-testid="wall-picture-toggle"
+          >
+            Last 10 min: {picture ? 'picture' : 'list'}
           </Button>
           <Button asChild size="lg" variant="outline" color="white" borderColor="ink.300">
             <RouterLink to={paths.wallBoard.getHref()}>All live codes</RouterLink>
@@ -172,6 +189,25 @@ function Wall({
         protocol={protocol}
         state={s}
         entries={entries}
+        recent={
+          picture ? (
+            <WallBox testId="wall-picture">
+              <CodePictureView
+                timeline={timeline}
+                entries={entries}
+                protocol={protocol}
+                lastMs={WALL_PICTURE_MS}
+                nowMs={nowMs}
+                // A child's wall gives the doses the wide column: a smaller picture fits the other.
+                scale={code.category === 'pediatric' ? 1.25 : 1.5}
+                compact
+                inverse
+                interactive={false}
+                label="The last 10 minutes of the code: compressions, rhythm checks, shocks, drugs, airway and access, ETCO2 and ROSC"
+              />
+            </WallBox>
+          ) : undefined
+        }
         arrestClock={
           <ArrestClock arrestAtMs={s.arrestAtMs} frozenAtMs={s.endedAtMs} correctedNow={clock.correctedNow} testId="wall-arrest-clock" fontSize="9rem" />
         }
@@ -209,6 +245,7 @@ export function WallFace({
   state: s,
   entries,
   arrestClock,
+  recent,
 }: {
   code: Code;
   protocol: ProtocolSettings;
@@ -216,6 +253,8 @@ export function WallFace({
   entries: readonly LogEntry[];
   /** The live wall passes a clock read many times a second; a replay shows the state's own. */
   arrestClock?: ReactNode;
+  /** Shown instead of the last entries (the wall's picture of the last 10 minutes). */
+  recent?: ReactNode;
 }) {
   const byId = useMemo(() => new Map(entries.map((e) => [e.id, e])), [entries]);
   const pediatric = code.category === 'pediatric';
@@ -277,19 +316,23 @@ export function WallFace({
         <Grid templateColumns="1fr 1.3fr" gap="3" flex="1">
           <Stack gap="3" minW="0">
             <WallReminders state={s} max={3} />
-            <WallBox testId="wall-recent">
-              <PanelLabel>Last entries</PanelLabel>
-              <RecentList s={s} protocol={protocol} byId={byId} />
-            </WallBox>
+            {recent ?? (
+              <WallBox testId="wall-recent">
+                <PanelLabel>Last entries</PanelLabel>
+                <RecentList s={s} protocol={protocol} byId={byId} />
+              </WallBox>
+            )}
           </Stack>
           <PediatricDosing code={code} s={s} />
         </Grid>
       ) : (
         <Grid templateColumns="1.4fr 1fr" gap="3" flex="1">
-          <WallBox testId="wall-recent">
-            <PanelLabel>Last entries</PanelLabel>
-            <RecentList s={s} protocol={protocol} byId={byId} />
-          </WallBox>
+          {recent ?? (
+            <WallBox testId="wall-recent">
+              <PanelLabel>Last entries</PanelLabel>
+              <RecentList s={s} protocol={protocol} byId={byId} />
+            </WallBox>
+          )}
           <WallReminders state={s} />
         </Grid>
       )}
