@@ -15,11 +15,15 @@ export function EditorPanel({
   children,
   onCancel,
   testId,
+  cancelLabel = 'Cancel',
+  cancelTestId = 'editor-cancel',
 }: {
   title: string;
   children: ReactNode;
   onCancel: () => void;
   testId: string;
+  cancelLabel?: string;
+  cancelTestId?: string;
 }) {
   const ref = useRef<HTMLDivElement>(null);
   useEffect(() => {
@@ -48,15 +52,17 @@ export function EditorPanel({
       boxShadow="2xl"
       p="4"
       onKeyDown={(e) => {
-        if (e.key === 'Escape') onCancel();
+        if (e.key !== 'Escape') return;
+        e.stopPropagation(); // closes only the innermost panel
+        onCancel();
       }}
     >
       <Flex align="center" justify="space-between" gap="3" mb="3">
         <Heading as="h2" textStyle="xl">
           {title}
         </Heading>
-        <Button variant="outline" minH="16" onClick={onCancel} data-testid="editor-cancel">
-          Cancel
+        <Button variant="outline" minH="12" onClick={onCancel} data-testid={cancelTestId}>
+          {cancelLabel}
         </Button>
       </Flex>
       {children}

@@ -49,12 +49,14 @@ export function PadSwitch({
       aria-checked={on}
       aria-label={label}
       data-testid={testId}
-      minH="16"
+      minH="12"
       h="auto"
+      data-pad-action=""
+      _focusVisible={{ outline: '3px solid', outlineColor: 'ink.950', outlineOffset: '2px' }}
       w="full"
       whiteSpace="normal"
       borderStyle={on ? 'solid' : 'dashed'}
-      textStyle="lg"
+      textStyle="md"
       disabled={disabled}
       onClick={() => onToggle(!on)}
       {...look}

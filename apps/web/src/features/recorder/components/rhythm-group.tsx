@@ -12,7 +12,7 @@ export function RhythmGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean
   const [pulse, setPulse] = useState(false);
   return (
     <PadGroup title="Rhythm check" id="rhythm" accent="ink.500">
-      <Stack gap="2">
+      <Stack gap="1.5">
         <PadSwitch
           on={pulse}
           onToggle={setPulse}
@@ -22,7 +22,7 @@ export function RhythmGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean
           disabled={disabled}
           data-testid="rhythm-pulse"
         />
-        <SimpleGrid columns={2} gap="2">
+        <SimpleGrid columns={3} gap="1.5">
           {RHYTHMS.map((r) => {
             const shockable = SHOCKABLE_RHYTHMS.includes(r);
             return (

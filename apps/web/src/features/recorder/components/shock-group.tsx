@@ -43,7 +43,7 @@ export function ShockGroup({
       : [];
   return (
     <PadGroup title="Shock" id="shock" accent="signal.500">
-      <Stack gap="2">
+      <Stack gap="1.5">
         <PadSwitch
           on={synchronized}
           onToggle={onSynchronized}
@@ -57,7 +57,7 @@ export function ShockGroup({
         />
         {pediatric ? (
           pedSteps.length > 0 ? (
-            <SimpleGrid columns={1} gap="2">
+            <SimpleGrid columns={2} gap="1.5">
               {pedSteps.map((step) => {
                 const isNext = nextStep !== null && step.shockNumber === nextStep.shockNumber;
                 return (
@@ -75,6 +75,7 @@ export function ShockGroup({
                       </>
                     }
                     emphasis={isNext}
+                    height="compact"
                     colorPalette="ink"
                     disabled={disabled}
                     data-testid={`shock-${Math.round(step.joules)}`}
@@ -85,19 +86,37 @@ export function ShockGroup({
                   />
                 );
               })}
+              <PadButton
+                label="Other energy"
+                height="compact"
+                disabled={disabled}
+                data-testid="shock-other"
+                aria-label="Shock at another energy"
+                onClick={onOtherEnergy}
+              />
             </SimpleGrid>
           ) : (
+            <Stack gap="1.5">
             <Text
               textStyle="md"
               fontWeight="bold"
               color="alarm.700"
               data-testid="shock-weight-needed"
             >
-              Weight needed for pediatric energies. Use Other energy, or set the weight below.
+              Weight needed for pediatric energies: use Other energy, or set the weight in Details.
             </Text>
+              <PadButton
+                label="Other energy"
+                height="compact"
+                disabled={disabled}
+                data-testid="shock-other"
+                aria-label="Shock at another energy"
+                onClick={onOtherEnergy}
+              />
+            </Stack>
           )
         ) : (
-          <SimpleGrid columns={2} gap="2">
+          <SimpleGrid columns={3} gap="1.5">
             {presets.map((j) => (
               <PadButton
                 key={j}
@@ -130,19 +149,8 @@ export function ShockGroup({
             />
           </SimpleGrid>
         )}
-        {pediatric ? (
-          <PadButton
-            label="Other energy"
-            height="compact"
-            disabled={disabled}
-            data-testid="shock-other"
-            aria-label="Shock at another energy"
-            onClick={onOtherEnergy}
-          />
-        ) : null}
-        <Text textStyle="xs" color="ink.700">
-          Records the shock given. Use the defibrillator maker&apos;s energy; this does not set the
-          device.
+        <Text textStyle="xs" color="ink.700" lineHeight="1.2">
+          Records the shock given; does not set the defibrillator.
         </Text>
       </Stack>
     </PadGroup>
