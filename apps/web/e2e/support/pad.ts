@@ -104,3 +104,15 @@ export async function storedLog(page: Page, codeId: string): Promise<StoredLog> 
     return (await res.json()) as StoredLog;
   }, codeId);
 }
+
+/** Opens the code's details from the pad's header, sets a measured weight on the number pad, and closes the sheet. */
+export async function setWeight(page: Page, kg: number): Promise<void> {
+  if (!(await page.getByTestId('details-weight').isVisible())) await page.getByTestId('pad-details').click();
+  await page.getByTestId('details-weight').click();
+  await page.getByTestId('weight-source-measured').click();
+  for (const digit of String(kg)) await page.getByTestId(digit === '.' ? 'numpad-dot' : `numpad-${digit}`).click();
+  await page.getByTestId('number-save').click();
+  await poll(() => page.getByTestId('header-weight').innerText()).toContain(`${kg} kg`);
+  await page.getByTestId('details-close').click();
+  await page.getByTestId('details-sheet').waitFor({ state: 'detached' });
+}

@@ -62,7 +62,7 @@ export function DrugGroup({ protocol, sheet, nextDoses, totals, pediatric, disab
           </Text>
         </Box>
       ) : null}
-      <SimpleGrid columns={{ base: 2, sm: 3, md: 5 }} gap="1.5">
+      <SimpleGrid columns={{ base: 2, sm: 3, md: 6 }} gap="1.5">
         {protocol.drugs.map((drug) => {
           const next = nextDoses[drug.key];
           const dose = next?.line ?? null;
@@ -98,6 +98,7 @@ export function DrugGroup({ protocol, sheet, nextDoses, totals, pediatric, disab
               key={drug.key}
               label={drug.label}
               height="compact"
+              labelSize="sm"
               colorPalette={limit ? 'signal' : 'brand'}
               emphasis={isArmed}
               disabled={disabled}
@@ -125,6 +126,7 @@ export function DrugGroup({ protocol, sheet, nextDoses, totals, pediatric, disab
         <PadButton
           label="Other drug"
           height="compact"
+          labelSize="sm"
           detail="dose now, name at review"
           disabled={disabled}
           data-testid="drug-other"

@@ -8,6 +8,9 @@ import { PadSwitch } from './pad-switch';
 import { PadGroup } from './pad-group';
 import type { Tap } from './types';
 
+/** Short words for narrow buttons; the full words are their accessible names. */
+const AIRWAY_SHORT = { 'bag-mask': 'Bag-mask', supraglottic: 'Supraglottic', endotracheal: 'ET tube' } as const;
+
 export function AirwayGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
   const [capno, setCapno] = useState(false);
   return (
@@ -16,8 +19,10 @@ export function AirwayGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean
         {(['bag-mask', 'supraglottic', 'endotracheal'] as const).map((device) => (
           <PadButton
             key={device}
-            label={AIRWAY_WORDS[device]}
-            detail={device === 'endotracheal' && capno ? '+ waveform capnography' : undefined}
+            label={AIRWAY_SHORT[device]}
+            labelSize="sm"
+            aria-label={`Airway: ${AIRWAY_WORDS[device]}${device === 'endotracheal' && capno ? ', confirmed by waveform capnography' : ''}`}
+            detail={device === 'endotracheal' && capno ? '+ capnography' : undefined}
             height="compact"
             disabled={disabled}
             data-testid={`airway-${device}`}
@@ -36,7 +41,7 @@ export function AirwayGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean
           onToggle={setCapno}
           label="Tube confirmed by waveform capnography"
           onText="Capno: YES"
-          offText="Capnography?"
+          offText="Capno?"
           disabled={disabled}
           data-testid="airway-capno"
         />
@@ -78,7 +83,7 @@ export function Etco2Group({
   disabled: boolean;
 }) {
   return (
-    <PadGroup title="ETCO2 (mmHg)" id="etco2" accent="ink.400">
+    <PadGroup title="ETCO2 (mmHg)" id="etco2" accent="ink.400" aria-describedby="etco2-caution">
       <SimpleGrid columns={3} gap="1.5">
         {[10, 20, 30, 40].map((v) => (
           <PadButton
@@ -101,9 +106,6 @@ export function Etco2Group({
           onClick={onOther}
         />
       </SimpleGrid>
-      <Text textStyle="xs" color="ink.700" mt="1" lineHeight="1.2">
-        Information only, never a reason on its own to stop.
-      </Text>
     </PadGroup>
   );
 }

@@ -8,6 +8,8 @@ export interface PadButtonProps extends Omit<ButtonProps, 'children'> {
   detail?: ReactNode;
   /** The protocol's suggestion or the next expected tap: drawn heavier, with a marker. */
   emphasis?: boolean;
+  /** A smaller label for long words in narrow cells. */
+  labelSize?: 'sm' | 'md' | 'lg';
   /** 56 px (default) or 48 px (the WCAG 2.2 target size we never go under) for dense grids. */
   height?: 'tall' | 'compact';
 }
@@ -21,6 +23,7 @@ export function PadButton({
   detail,
   emphasis = false,
   height = 'tall',
+  labelSize,
   variant,
   colorPalette = 'ink',
   ...rest
@@ -52,7 +55,7 @@ export function PadButton({
     >
       <Text
         as="span"
-        textStyle={height === 'tall' ? 'lg' : 'md'}
+        textStyle={labelSize ?? (height === 'tall' ? 'lg' : 'md')}
         fontWeight="bold"
         lineHeight="1.15"
         textAlign="center"

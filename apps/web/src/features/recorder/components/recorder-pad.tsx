@@ -234,47 +234,6 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
       data-testid="recorder-pad"
       data-code-id={code.id}
     >
-      <Flex as="header" align="center" justify="space-between" wrap="wrap" gap="2" flexShrink={0}>
-        <Flex align="center" gap="2" wrap="wrap" minW="0">
-          <Heading as="h1" textStyle="lg" fontWeight="bold" data-testid="record-heading">
-            {pediatric ? 'Pediatric' : 'Adult'} code
-          </Heading>
-          <Box
-            as="span"
-            px="2"
-            py="0.5"
-            borderRadius="full"
-            borderWidth="2px"
-            borderColor={code.weightKg === null && pediatric ? 'alarm.600' : 'ink.700'}
-            fontWeight="bold"
-            textStyle="sm"
-            data-testid="header-weight"
-          >
-            {weightWords}
-          </Box>
-          <Text as="span" textStyle="sm" color="ink.700" truncate maxW="16rem">
-            {code.location ?? 'place not set'}
-          </Text>
-        </Flex>
-        <Flex align="center" gap="2">
-          <Button
-            minH="12"
-            variant="outline"
-            bg="white"
-            data-testid="pad-details"
-            aria-haspopup="dialog"
-            aria-expanded={detailsOpen}
-            onClick={() => setDetailsOpen(true)}
-          >
-            <Shape kind="ring" size="1em" />
-            Details: {pediatric ? 'child' : 'adult'}, weight, place, time
-          </Button>
-          <Button asChild minH="12" variant="outline" bg="white" data-testid="pad-wall-link">
-            <RouterLink to={paths.codes.wall.getHref(code.id)}>Wall</RouterLink>
-          </Button>
-        </Flex>
-      </Flex>
-
       {alerts}
 
       <Grid
@@ -282,12 +241,55 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
         minH="0"
         gap="2"
         templateColumns={{ base: 'minmax(0, 1fr)', lg: noWrite ? 'minmax(0, 1fr)' : 'minmax(0, 1fr) 19rem' }}
-        templateRows={{ base: 'auto', md: noWrite ? 'auto minmax(0, 1fr)' : 'auto auto minmax(0, 1fr)', lg: 'auto minmax(0, 1fr)' }}
+        templateRows={{
+          base: 'auto',
+          md: noWrite ? 'auto auto minmax(0, 1fr)' : 'auto auto auto minmax(0, 1fr)',
+          lg: 'auto auto minmax(0, 1fr)',
+        }}
+        // Landscape: the bedside jobs on the left, what to read (code, clocks, entries) on the right.
         templateAreas={{
-          base: noWrite ? '"status" "side"' : '"status" "main" "side"',
-          lg: noWrite ? '"status" "side"' : '"main status" "main side"',
+          base: noWrite ? '"head" "status" "side"' : '"head" "status" "main" "side"',
+          lg: noWrite ? '"head" "status" "side"' : '"main head" "main status" "main side"',
         }}
       >
+        <Flex gridArea="head" align="center" justify="space-between" wrap="wrap" gap="2" minW="0">
+          <Flex align="center" gap="2" wrap="wrap" minW="0">
+            <Heading as="h1" textStyle="lg" fontWeight="bold" data-testid="record-heading">
+              {pediatric ? 'Pediatric' : 'Adult'} code
+            </Heading>
+            <Box
+              as="span"
+              px="2"
+              py="0.5"
+              borderRadius="full"
+              borderWidth="2px"
+              borderColor={code.weightKg === null && pediatric ? 'alarm.600' : 'ink.700'}
+              fontWeight="bold"
+              textStyle="sm"
+              data-testid="header-weight"
+            >
+              {weightWords}
+            </Box>
+            <Text as="span" textStyle="sm" color="ink.700" truncate maxW="16rem">
+              {code.location ?? 'place not set'}
+            </Text>
+          </Flex>
+          <Flex align="center" gap="2">
+            <Button
+              minH="12"
+              variant="outline"
+              bg="white"
+              data-testid="pad-details"
+              aria-expanded={detailsOpen}
+              onClick={() => setDetailsOpen(true)}
+            >
+              Code details
+            </Button>
+            <Button asChild minH="12" variant="outline" bg="white" data-testid="pad-wall-link">
+              <RouterLink to={paths.codes.wall.getHref(code.id)}>Wall</RouterLink>
+            </Button>
+          </Flex>
+        </Flex>
         <Box gridArea="status" minW="0">
           <StatusStrip timeline={timeline} sync={live.sync} correctedNow={clock.correctedNow} />
         </Box>
@@ -370,6 +372,10 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
           <Box borderTopWidth="1px" borderColor="ink.200" pt="1" flexShrink={0} data-testid="reminder-caution">
             <Text textStyle="xs" fontWeight="bold" lineHeight="1.3">
               {REMINDER_CAUTION}
+            </Text>
+            <Text textStyle="xs" color="ink.700" lineHeight="1.3">
+              <span id="shock-caution">Shocks are recorded as given; the pad does not set the defibrillator.</span>{' '}
+              <span id="etco2-caution">ETCO2 is information only, never a reason on its own to stop.</span>
             </Text>
           </Box>
         </Flex>

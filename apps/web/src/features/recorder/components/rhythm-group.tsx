@@ -31,6 +31,7 @@ export function RhythmGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean
                 label={RHYTHM_WORDS[r]}
                 detail={shockable ? 'shockable' : undefined}
                 height="compact"
+                labelSize="sm"
                 disabled={disabled}
                 data-testid={`rhythm-${r}`}
                 aria-label={`Rhythm ${RHYTHM_WORDS[r]}, ${pulse ? 'pulse present' : 'no pulse'}`}

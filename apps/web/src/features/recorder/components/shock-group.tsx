@@ -42,7 +42,7 @@ export function ShockGroup({
         : sheet.defibrillation.steps
       : [];
   return (
-    <PadGroup title="Shock" id="shock" accent="signal.500">
+    <PadGroup title="Shock" id="shock" accent="signal.500" aria-describedby="shock-caution">
       <Stack gap="1.5">
         <PadSwitch
           on={synchronized}
@@ -149,9 +149,6 @@ export function ShockGroup({
             />
           </SimpleGrid>
         )}
-        <Text textStyle="xs" color="ink.700" lineHeight="1.2">
-          Records the shock given; does not set the defibrillator.
-        </Text>
       </Stack>
     </PadGroup>
   );
