@@ -1,5 +1,6 @@
 import type { Page } from 'playwright-core';
 import { expect } from 'vitest';
+import { expectAccessible } from './axe.js';
 
 /** expect.poll with a timeout fit for a loaded two-core machine (the default is 1 s). */
 export function poll<T>(fn: () => T | Promise<T>, options: { timeout?: number } = {}) {
@@ -12,6 +13,7 @@ export async function startCodeFromHome(page: Page, category: 'adult' | 'child' 
   await page.getByTestId(`start-${category}`).click();
   await page.waitForURL(/\/codes\/[^/]+\/record$/);
   await page.getByTestId('recorder-pad').waitFor();
+  await expectAccessible(page, `recorder pad (${category})`);
   const match = /\/codes\/([^/]+)\/record$/.exec(new URL(page.url()).pathname);
   if (!match?.[1]) throw new Error(`no code id in ${page.url()}`);
   return decodeURIComponent(match[1]);

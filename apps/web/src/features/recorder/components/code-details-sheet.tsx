@@ -57,6 +57,11 @@ export default function CodeDetailsSheet({
           Protocol version {code.protocolVersion ?? 1}: {protocol.edition}. Times shown are when each event happened, as tapped.{' '}
           {TAPS_NOT_SENSOR}
         </Text>
+        {sheet?.status === 'ready' ? (
+          <Text textStyle="sm" fontWeight="bold">
+            Weight-based doses and energies: {sheet.edition}.
+          </Text>
+        ) : null}
         {sheet ? <DosingCautions sheet={sheet} /> : null}
       </Stack>
     </EditorPanel>

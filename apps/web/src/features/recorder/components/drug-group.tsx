@@ -57,7 +57,7 @@ export function DrugGroup({ protocol, sheet, nextDoses, totals, pediatric, disab
               Double-check every weight-based dose with a second person.
             </Text>{' '}
             {sheet?.status === 'ready'
-              ? `Doses for ${formatDose(sheet.weightKg ?? 0)} kg, ${sheet.edition}.`
+              ? `Doses for ${formatDose(sheet.weightKg ?? 0)} kg (sheet in Code details).`
               : 'Weight needed: no dose is suggested until the weight is set.'}
           </Text>
         </Box>

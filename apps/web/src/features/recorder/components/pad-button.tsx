@@ -26,8 +26,11 @@ export function PadButton({
   labelSize,
   variant,
   colorPalette = 'ink',
+  'aria-label': context,
   ...rest
 }: PadButtonProps) {
+  // The visible words are the button's name (WCAG 2.5.3, label in name); what the caller says
+  // beyond them is read as its description.
   return (
     <Button
       colorPalette={colorPalette}
@@ -51,6 +54,7 @@ export function PadButton({
       transition="transform 80ms"
       _focusVisible={{ outline: '3px solid', outlineColor: 'ink.950', outlineOffset: '2px' }}
       data-pad-action=""
+      aria-description={context}
       {...rest}
     >
       <Text
@@ -62,6 +66,7 @@ export function PadButton({
       >
         {label}
       </Text>
+      {detail ? ' ' : null}
       {detail ? (
         <Box
           as="span"

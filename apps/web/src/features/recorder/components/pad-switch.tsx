@@ -47,7 +47,7 @@ export function PadSwitch({
     <Button
       role="switch"
       aria-checked={on}
-      aria-label={label}
+      aria-description={label}
       data-testid={testId}
       minH="12"
       h="auto"

@@ -68,10 +68,13 @@ export function ShockGroup({
                     detail={
                       <>
                         <Box>{`${step.repeats ? `Shock ${step.shockNumber}+` : `Shock ${step.shockNumber}`}${isNext ? ' · next' : ''}${step.joulesHigh !== null ? ` · range ${step.display}` : ''}`}</Box>
-                        <Box fontWeight="normal">
-                          {step.formula}
-                          {step.capNote ? ` (${step.capNote})` : ''}
-                        </Box>
+                        {/* A range's long formula is read out, not printed: the pad keeps to one screen. */}
+                        {step.joulesHigh === null ? (
+                          <Box fontWeight="normal">
+                            {step.formula}
+                            {step.capNote ? ` (${step.capNote})` : ''}
+                          </Box>
+                        ) : null}
                       </>
                     }
                     emphasis={isNext}
@@ -79,7 +82,7 @@ export function ShockGroup({
                     colorPalette="ink"
                     disabled={disabled}
                     data-testid={`shock-${Math.round(step.joules)}`}
-                    aria-label={`${synchronized ? 'Synchronised shock' : 'Shock'} ${Math.round(step.joules)} joules`}
+                    aria-label={`${synchronized ? 'Synchronised shock' : 'Shock'} ${Math.round(step.joules)} joules. ${step.formula}${step.capNote ? ` (${step.capNote})` : ''}`}
                     onClick={() =>
                       onTap({ kind: 'shock', joules: Math.round(step.joules), synchronized })
                     }

@@ -102,10 +102,12 @@ export function UndoBar({
             borderColor="ink.200"
             _hover={{ bg: 'ink.700' }}
             whiteSpace="normal"
+            textStyle="sm"
+            lineHeight="1.1"
             data-testid="change-dose"
             onClick={onChangeDose}
           >
-            Change dose / route
+            Change dose or route
           </Button>
         ) : null}
       </Flex>
