@@ -11,6 +11,8 @@
 // mode on a temporary data folder, and Debian's headless Chromium through playwright-core. Every
 // time is taken inside the page with performance.now() (a capture-phase click listener and a
 // MutationObserver), on one machine clock (performance.timeOrigin), never by playwright round trips.
+// Functions passed to page.evaluate run in the browser.
+/* global window, document, Element, MutationObserver, indexedDB, requestAnimationFrame */
 import { spawn } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { createRequire } from 'node:module';
@@ -20,6 +22,7 @@ import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { parseArgs } from 'node:util';
 
+const out = (line = '') => process.stdout.write(line + '\n');
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const requireWeb = createRequire(path.join(ROOT, 'apps/web/package.json'));
 const { chromium } = requireWeb('playwright-core');
@@ -216,14 +219,14 @@ async function main() {
     socket.close();
 
     const cpus = os.cpus();
-    console.log(`pad-tap: ${TAPS} taps, ${os.cpus().length} cores (${cpus[0]?.model ?? '?'}), node ${process.version}, load ${os.loadavg().map((l) => l.toFixed(2)).join(' ')}`);
-    console.log(line('click -> own row (memory)', own));
-    console.log(line('click -> "on this tablet" (IDB)', device));
-    console.log(line('click -> "saved" (server ack)', saved));
-    console.log(line('click -> row on the wall', onWall));
-    console.log(line('floor: IDB write + row inserted', floorIdb.map((f) => f.committed)));
-    console.log(line('floor: IDB write + next frame', floorIdb.map((f) => f.painted)));
-    console.log(line('floor: socket.io round trip', rtt));
+    out(`pad-tap: ${TAPS} taps, ${os.cpus().length} cores (${cpus[0]?.model ?? '?'}), node ${process.version}, load ${os.loadavg().map((l) => l.toFixed(2)).join(' ')}`);
+    out(line('click -> own row (memory)', own));
+    out(line('click -> "on this tablet" (IDB)', device));
+    out(line('click -> "saved" (server ack)', saved));
+    out(line('click -> row on the wall', onWall));
+    out(line('floor: IDB write + row inserted', floorIdb.map((f) => f.committed)));
+    out(line('floor: IDB write + next frame', floorIdb.map((f) => f.painted)));
+    out(line('floor: socket.io round trip', rtt));
   } finally {
     await browser.close();
     await server.stop();

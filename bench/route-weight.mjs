@@ -8,6 +8,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { gzipSync } from 'node:zlib';
 
+const out = (line = '') => process.stdout.write(line + '\n');
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const DIST = path.join(ROOT, 'apps/web/dist');
 const ASSETS = path.join(DIST, 'assets');
@@ -49,7 +50,7 @@ const rows = [...loaded].map((file) => {
 });
 rows.sort((a, b) => b.gz - a.gz);
 const kb = (n) => (n / 1024).toFixed(1).padStart(7);
-for (const r of rows) console.log(`${kb(r.raw)} KB ${kb(r.gz)} KB gzip  ${r.file}`);
-console.log(`${kb(raw)} KB ${kb(gz)} KB gzip  TOTAL JavaScript for /codes/:id/record (${rows.length} files)`);
+for (const r of rows) out(`${kb(r.raw)} KB ${kb(r.gz)} KB gzip  ${r.file}`);
+out(`${kb(raw)} KB ${kb(gz)} KB gzip  TOTAL JavaScript for /codes/:id/record (${rows.length} files)`);
 const later = [...lazy].filter((f) => !loaded.has(f));
-console.log(`loaded later, on demand: ${later.length} chunks (other routes, the details sheet...)`);
+out(`loaded later, on demand: ${later.length} chunks (other routes, the details sheet...)`);

@@ -17,9 +17,7 @@ interface AxeViolation {
  * serious or critical violation, naming the rule and the elements. Call it once a screen is shown.
  */
 export async function expectAccessible(page: Page, screen: string): Promise<void> {
-  await page.evaluate((source) => {
-    if (!(window as unknown as { axe?: unknown }).axe) new Function(source)();
-  }, axeSource);
+  if (!(await page.evaluate(() => 'axe' in window))) await page.addScriptTag({ content: axeSource });
   const violations = await page.evaluate(async () => {
     const axe = (window as unknown as { axe: { run: (ctx: unknown, opts: unknown) => Promise<{ violations: AxeViolation[] }> } }).axe;
     const result = await axe.run(document, {

@@ -1,4 +1,4 @@
-import { SimpleGrid, Stack, Text } from '@chakra-ui/react';
+import { SimpleGrid, Stack } from '@chakra-ui/react';
 import { EditorPanel } from './editor-panel';
 import { END_OUTCOME_CHOICES } from '@steadyhand/shared';
 import { useState } from 'react';
