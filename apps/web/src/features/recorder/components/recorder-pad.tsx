@@ -19,7 +19,6 @@ import { describeEntry, formatDose, OUTCOME_WORDS } from '../../../lib/live/entr
 import { lastMoment, useCodeTimeline } from '../../../lib/live/use-code-timeline';
 import { CprGroup } from './cpr-group';
 import { DrugGroup, type DrugTapPlan } from './drug-group';
-import { DoseEditor, NoteEditor, NumberEditor } from './editor-panel';
 import { AccessGroup, AirwayGroup, Etco2Group, EventGroup } from './more-groups';
 import { RecentEntries } from './recent-entries';
 import { RhythmGroup } from './rhythm-group';
@@ -30,6 +29,9 @@ import { UNDO_WINDOW_MS, UndoBar, type LastTap } from './undo-bar';
 
 // Loaded on first opening, so the pad's first load stays small.
 const CodeDetailsSheet = lazy(() => import('./code-details-sheet'));
+const DoseEditor = lazy(() => import('./editors').then((m) => ({ default: m.DoseEditor })));
+const NumberEditor = lazy(() => import('./editors').then((m) => ({ default: m.NumberEditor })));
+const NoteEditor = lazy(() => import('./editors').then((m) => ({ default: m.NoteEditor })));
 
 export const REMINDER_CAUTION = CORE_REMINDER_CAUTION;
 export const UNDO_REASON = 'undone on the pad within 5 s';
@@ -395,6 +397,7 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
         </Suspense>
       ) : null}
 
+      <Suspense fallback={null}>
       {editor?.kind === 'amend-dose' ? (
         <DoseEditor
           title={`Change ${describeEntry(editor.entry, protocol)}`}
@@ -498,6 +501,7 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
           }}
         />
       ) : null}
+      </Suspense>
     </Flex>
   );
 }
