@@ -1,4 +1,4 @@
-import { Box, Button, Flex, SimpleGrid, Stack, Text, Textarea } from '@chakra-ui/react';
+import { Box, Button, SimpleGrid, Stack, Text, Textarea } from '@chakra-ui/react';
 import { DOSE_UNITS, DRUG_ROUTES, doseUnitLabel, type DoseUnit } from '@steadyhand/shared';
 import { useState, type ReactNode } from 'react';
 import { ROUTE_WORDS } from '../../../lib/live/entry-words';
