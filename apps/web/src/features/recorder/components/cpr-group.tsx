@@ -1,4 +1,5 @@
 import { SimpleGrid, Stack, Text } from '@chakra-ui/react';
+import { memo } from 'react';
 import { PadButton } from './pad-button';
 import { PadGroup } from './pad-group';
 import type { Tap } from './types';
@@ -11,7 +12,7 @@ const PAUSES = [
 ] as const;
 
 /** Start, pause (with why), swap. The layout never moves; what is expected next is drawn heavier. */
-export function CprGroup({
+export const CprGroup = memo(function CprGroup({
   running,
   onTap,
   disabled,
@@ -65,4 +66,4 @@ export function CprGroup({
       </Stack>
     </PadGroup>
   );
-}
+});

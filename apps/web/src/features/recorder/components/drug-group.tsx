@@ -9,7 +9,7 @@ import {
   type NextDose,
   type ProtocolSettings,
 } from '@steadyhand/shared';
-import { useEffect, useState } from 'react';
+import { useEffect, useState, memo } from 'react';
 import { formatDose, ROUTE_WORDS } from '../../../lib/live/entry-words';
 import { PadButton } from './pad-button';
 import { PadGroup } from './pad-group';
@@ -40,7 +40,7 @@ interface DrugGroupProps {
  * One tap records the next dose from the protocol (or the weight-based sheet) by the default
  * route; the dose and route can be changed right after from the Undo bar.
  */
-export function DrugGroup({ protocol, sheet, nextDoses, totals, pediatric, disabled, onDrug, onOtherDrug }: DrugGroupProps) {
+export const DrugGroup = memo(function DrugGroup({ protocol, sheet, nextDoses, totals, pediatric, disabled, onDrug, onOtherDrug }: DrugGroupProps) {
   // A drug past its limit asks for a second tap: the first arms it, the second records.
   const [armed, setArmed] = useState<string | null>(null);
   useEffect(() => {
@@ -136,4 +136,4 @@ export function DrugGroup({ protocol, sheet, nextDoses, totals, pediatric, disab
       </SimpleGrid>
     </PadGroup>
   );
-}
+});

@@ -1,7 +1,7 @@
 import { SimpleGrid, Stack } from '@chakra-ui/react';
 import { EditorPanel } from './editor-panel';
 import { END_OUTCOME_CHOICES } from '@steadyhand/shared';
-import { useState } from 'react';
+import { useState, memo } from 'react';
 import { AIRWAY_WORDS, OUTCOME_WORDS } from '../../../lib/live/entry-words';
 import { PadButton } from './pad-button';
 import { PadSwitch } from './pad-switch';
@@ -11,7 +11,7 @@ import type { Tap } from './types';
 /** Short words for narrow buttons; the full words are their accessible names. */
 const AIRWAY_SHORT = { 'bag-mask': 'Bag-mask', supraglottic: 'Supraglottic', endotracheal: 'ET tube' } as const;
 
-export function AirwayGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
+export const AirwayGroup = memo(function AirwayGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
   const [capno, setCapno] = useState(false);
   return (
     <PadGroup title="Airway" id="airway" accent="ink.400">
@@ -48,9 +48,9 @@ export function AirwayGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean
       </SimpleGrid>
     </PadGroup>
   );
-}
+});
 
-export function AccessGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
+export const AccessGroup = memo(function AccessGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
   return (
     <PadGroup title="Access" id="access" accent="ink.400">
       <SimpleGrid columns={1} gap="1.5">
@@ -71,9 +71,9 @@ export function AccessGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean
       </SimpleGrid>
     </PadGroup>
   );
-}
+});
 
-export function Etco2Group({
+export const Etco2Group = memo(function Etco2Group({
   onTap,
   onOther,
   disabled,
@@ -108,9 +108,9 @@ export function Etco2Group({
       </SimpleGrid>
     </PadGroup>
   );
-}
+});
 
-export function EventGroup({
+export const EventGroup = memo(function EventGroup({
   onTap,
   onNote,
   disabled,
@@ -187,4 +187,4 @@ export function EventGroup({
       ) : null}
     </PadGroup>
   );
-}
+});

@@ -109,19 +109,28 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
   const voidEntry = (entry: EffectiveEntry, reason: string) =>
     tap({ kind: 'void', target: entry.id, reason });
 
-  const onDrug = (plan: DrugTapPlan) => {
-    if (!plan.dose) {
-      setEditor({ kind: 'new-dose', plan });
-      return;
-    }
-    tap({
-      kind: 'drug',
-      drug: plan.drug.key,
-      dose: plan.dose.amount,
-      unit: plan.dose.unit,
-      route: plan.drug.route,
-    });
-  };
+  // Stable callbacks: the button groups are memoised, so a tap re-renders the list, not every button.
+  const onDrug = useCallback(
+    (plan: DrugTapPlan) => {
+      if (!plan.dose) {
+        setEditor({ kind: 'new-dose', plan });
+        return;
+      }
+      tap({
+        kind: 'drug',
+        drug: plan.drug.key,
+        dose: plan.dose.amount,
+        unit: plan.dose.unit,
+        route: plan.drug.route,
+      });
+    },
+    [tap],
+  );
+  const onOtherEnergy = useCallback(() => setEditor({ kind: 'energy' }), []);
+  const onOtherDrug = useCallback(() => setEditor({ kind: 'other-drug' }), []);
+  const onNote = useCallback(() => setEditor({ kind: 'note' }), []);
+  const onOtherEtco2 = useCallback(() => setEditor({ kind: 'etco2' }), []);
+
 
   const nextPedStep = synchronized ? snapshot.nextEnergy.cardioversion : snapshot.nextEnergy.defibrillation;
   const noWrite = !canWrite;
@@ -303,7 +312,7 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
               <RhythmGroup onTap={tap} disabled={noWrite} />
               <ShockGroup
                 onTap={tap}
-                onOtherEnergy={() => setEditor({ kind: 'energy' })}
+                onOtherEnergy={onOtherEnergy}
                 synchronized={synchronized}
                 onSynchronized={setSynchronized}
                 disabled={noWrite}
@@ -322,16 +331,16 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
               pediatric={pediatric}
               disabled={noWrite}
               onDrug={onDrug}
-              onOtherDrug={() => setEditor({ kind: 'other-drug' })}
+              onOtherDrug={onOtherDrug}
             />
             <Grid
               templateColumns={{ base: 'repeat(2, minmax(0, 1fr))', md: '1.1fr 1.2fr 0.7fr 1.2fr' }}
               gap="2"
             >
-              <EventGroup onTap={tap} onNote={() => setEditor({ kind: 'note' })} disabled={noWrite} />
+              <EventGroup onTap={tap} onNote={onNote} disabled={noWrite} />
               <AirwayGroup onTap={tap} disabled={noWrite} />
               <AccessGroup onTap={tap} disabled={noWrite} />
-              <Etco2Group onTap={tap} onOther={() => setEditor({ kind: 'etco2' })} disabled={noWrite} />
+              <Etco2Group onTap={tap} onOther={onOtherEtco2} disabled={noWrite} />
             </Grid>
           </Flex>
         )}

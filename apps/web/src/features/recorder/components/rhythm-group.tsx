@@ -1,6 +1,6 @@
 import { SimpleGrid, Stack } from '@chakra-ui/react';
 import { RHYTHMS, SHOCKABLE_RHYTHMS } from '@steadyhand/shared';
-import { useState } from 'react';
+import { useState, memo } from 'react';
 import { RHYTHM_WORDS } from '../../../lib/live/entry-words';
 import { PadButton } from './pad-button';
 import { PadSwitch } from './pad-switch';
@@ -8,7 +8,7 @@ import { PadGroup } from './pad-group';
 import type { Tap } from './types';
 
 /** Set the pulse first if there is one (it starts at "no pulse"), then tap what the monitor shows. */
-export function RhythmGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
+export const RhythmGroup = memo(function RhythmGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
   const [pulse, setPulse] = useState(false);
   return (
     <PadGroup title="Rhythm check" id="rhythm" accent="ink.500">
@@ -46,4 +46,4 @@ export function RhythmGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean
       </Stack>
     </PadGroup>
   );
-}
+});

@@ -1,4 +1,5 @@
 import { Box, SimpleGrid, Stack, Text } from '@chakra-ui/react';
+import { memo } from 'react';
 import type { DosingSheet, EnergyStep } from '@steadyhand/shared';
 import { PadButton } from './pad-button';
 import { PadSwitch } from './pad-switch';
@@ -23,7 +24,7 @@ interface ShockGroupProps {
  * Energies to record, never settings for the device. The synchronised switch is a full-width
  * bar that changes shape, words and colour, because mixing the two modes up is dangerous.
  */
-export function ShockGroup({
+export const ShockGroup = memo(function ShockGroup({
   onTap,
   onOtherEnergy,
   synchronized,
@@ -155,4 +156,4 @@ export function ShockGroup({
       </Stack>
     </PadGroup>
   );
-}
+});
