@@ -48,7 +48,15 @@ async function startServer() {
   const baseUrl = `http://127.0.0.1:${port}`;
   const child = spawn(process.execPath, [path.join(ROOT, 'apps/server/dist/main.js')], {
     cwd: ROOT,
-    env: { ...process.env, DATA_DIR: dataDir, PORT: String(port), HOST: '127.0.0.1', STEADYHAND_DEMO: '1', LOG_LEVEL: 'warn', PUBLIC_ORIGIN: baseUrl },
+    env: {
+      ...process.env,
+      DATA_DIR: dataDir,
+      PORT: String(port),
+      HOST: '127.0.0.1',
+      STEADYHAND_DEMO: '1',
+      LOG_LEVEL: 'warn',
+      PUBLIC_ORIGIN: baseUrl,
+    },
     stdio: ['ignore', 'ignore', 'inherit'],
   });
   const deadline = Date.now() + 120_000;
@@ -58,7 +66,8 @@ async function startServer() {
     } catch {
       // not up yet
     }
-    if (Date.now() > deadline || child.exitCode !== null) throw new Error('the server did not start');
+    if (Date.now() > deadline || child.exitCode !== null)
+      throw new Error('the server did not start');
     await new Promise((r) => setTimeout(r, 100));
   }
   const stop = () =>
@@ -82,9 +91,14 @@ function installPadProbe() {
   const w = window;
   w.__taps = [];
   w.__rows = {};
-  document.addEventListener('click', (e) => {
-    if (e.target instanceof Element && e.target.closest('[data-pad-action]')) w.__taps.push({ clickAt: performance.timeOrigin + performance.now() });
-  }, true);
+  document.addEventListener(
+    'click',
+    (e) => {
+      if (e.target instanceof Element && e.target.closest('[data-pad-action]'))
+        w.__taps.push({ clickAt: performance.timeOrigin + performance.now() });
+    },
+    true,
+  );
   const look = () => {
     const now = performance.timeOrigin + performance.now();
     for (const el of document.querySelectorAll('[data-testid="entry-row"]')) {
@@ -95,7 +109,12 @@ function installPadProbe() {
       if (stage && r.stages[stage] === undefined) r.stages[stage] = now;
     }
   };
-  new MutationObserver(look).observe(document.body, { subtree: true, childList: true, attributes: true, attributeFilter: ['data-stage'] });
+  new MutationObserver(look).observe(document.body, {
+    subtree: true,
+    childList: true,
+    attributes: true,
+    attributeFilter: ['data-stage'],
+  });
   look();
 }
 
@@ -118,20 +137,42 @@ const pct = (values, p) => {
   return s[Math.min(s.length - 1, Math.ceil((p / 100) * s.length) - 1)];
 };
 const line = (name, values) =>
-  `${name.padEnd(34)} n=${String(values.length).padStart(3)}  p50 ${pct(values, 50).toFixed(1).padStart(6)} ms  p95 ${pct(values, 95).toFixed(1).padStart(6)} ms  max ${Math.max(...values).toFixed(1).padStart(6)} ms`;
+  `${name.padEnd(34)} n=${String(values.length).padStart(3)}  p50 ${pct(values, 50).toFixed(1).padStart(6)} ms  p95 ${pct(values, 95).toFixed(1).padStart(6)} ms  max ${Math.max(
+    ...values,
+  )
+    .toFixed(1)
+    .padStart(6)} ms`;
 
 async function main() {
   const server = await startServer();
-  const { DEMO_PASSWORD } = await import(pathToFileURL(path.join(ROOT, 'apps/server/dist/demo/demo-data.js')).href);
+  const { DEMO_PASSWORD } = await import(
+    pathToFileURL(path.join(ROOT, 'apps/server/dist/demo/demo-data.js')).href
+  );
   const browser = await chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
     headless: true,
-    args: ['--no-sandbox', '--disable-gpu', '--disable-dev-shm-usage', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
+    args: [
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-dev-shm-usage',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+      '--no-first-run',
+    ],
   });
   try {
-    const ctxOptions = { baseURL: server.baseUrl, viewport: { width: 1180, height: 820 }, locale: 'en-GB', timezoneId: 'UTC' };
+    const ctxOptions = {
+      baseURL: server.baseUrl,
+      viewport: { width: 1180, height: 820 },
+      locale: 'en-GB',
+      timezoneId: 'UTC',
+    };
     const padCtx = await browser.newContext(ctxOptions);
-    const wallCtx = await browser.newContext({ ...ctxOptions, viewport: { width: 1920, height: 1080 } });
+    const wallCtx = await browser.newContext({
+      ...ctxOptions,
+      viewport: { width: 1920, height: 1080 },
+    });
     const pad = await padCtx.newPage();
     const wall = await wallCtx.newPage();
     await signIn(pad, 'maren.holt', DEMO_PASSWORD);
@@ -139,9 +180,15 @@ async function main() {
     await pad.getByRole('button', { name: 'Start a code' }).click();
     await pad.getByTestId('start-adult').click();
     await pad.waitForURL(/\/codes\/[^/]+\/record$/);
-    const codeId = decodeURIComponent(/\/codes\/([^/]+)\/record$/.exec(new URL(pad.url()).pathname)[1]);
+    const codeId = decodeURIComponent(
+      /\/codes\/([^/]+)\/record$/.exec(new URL(pad.url()).pathname)[1],
+    );
     await wall.goto(`/codes/${codeId}/wall`);
-    await pad.waitForFunction(() => document.querySelector('[data-testid="sync-state"]')?.getAttribute('data-connected') === 'true');
+    await pad.waitForFunction(
+      () =>
+        document.querySelector('[data-testid="sync-state"]')?.getAttribute('data-connected') ===
+        'true',
+    );
     await wall.waitForSelector('[data-testid="wall-arrest-clock"]');
     await pad.evaluate(installPadProbe);
     await wall.evaluate(installWallProbe);
@@ -149,8 +196,14 @@ async function main() {
     for (let i = 0; i < TAPS; i++) {
       await pad.getByTestId(BUTTONS[i % BUTTONS.length]).click();
       // Wait until this tap is saved and on the wall before the next one (one tap at a time).
-      await pad.waitForFunction((n) => Object.values(window.__rows).filter((r) => r.stages.saved !== undefined).length >= n, i + 1);
-      const id = await pad.evaluate((n) => Object.entries(window.__rows).find(([, r]) => r.tap === n)?.[0], i);
+      await pad.waitForFunction(
+        (n) => Object.values(window.__rows).filter((r) => r.stages.saved !== undefined).length >= n,
+        i + 1,
+      );
+      const id = await pad.evaluate(
+        (n) => Object.entries(window.__rows).find(([, r]) => r.tap === n)?.[0],
+        i,
+      );
       await wall.waitForFunction((entryId) => window.__seen[entryId] !== undefined, id);
       await pad.waitForTimeout(150);
     }
@@ -181,18 +234,31 @@ async function main() {
         req.onsuccess = () => resolve(req.result);
         req.onerror = () => reject(req.error);
       });
-      document.body.innerHTML = '<button id="tap" style="width:80px;height:80px">tap</button><ol id="rows"></ol>';
+      document.body.innerHTML =
+        '<button id="tap" style="width:80px;height:80px">tap</button><ol id="rows"></ol>';
       window.__floor = [];
       document.getElementById('tap').addEventListener('click', () => {
         const clickAt = performance.now();
         const tx = db.transaction('rows', 'readwrite', { durability: 'strict' });
-        tx.objectStore('rows').put({ id: crypto.randomUUID(), at: Date.now(), kind: 'etco2', mmHg: 20 });
+        tx.objectStore('rows').put({
+          id: crypto.randomUUID(),
+          at: Date.now(),
+          kind: 'etco2',
+          mmHg: 20,
+        });
         tx.oncomplete = () => {
           const li = document.createElement('li');
           li.textContent = 'kept';
           document.getElementById('rows').prepend(li);
           const insertedAt = performance.now();
-          requestAnimationFrame(() => setTimeout(() => window.__floor.push({ committed: insertedAt - clickAt, painted: performance.now() - clickAt })));
+          requestAnimationFrame(() =>
+            setTimeout(() =>
+              window.__floor.push({
+                committed: insertedAt - clickAt,
+                painted: performance.now() - clickAt,
+              }),
+            ),
+          );
         };
       });
     });
@@ -204,7 +270,12 @@ async function main() {
 
     // Floor 2: a socket.io round trip through the same server (time:ping, no database).
     const cookies = (await padCtx.cookies()).map((c) => `${c.name}=${c.value}`).join('; ');
-    const socket = io(`${server.baseUrl}/live`, { transports: ['websocket'], extraHeaders: { cookie: cookies, origin: server.baseUrl }, forceNew: true, reconnection: false });
+    const socket = io(`${server.baseUrl}/live`, {
+      transports: ['websocket'],
+      extraHeaders: { cookie: cookies, origin: server.baseUrl },
+      forceNew: true,
+      reconnection: false,
+    });
     await new Promise((resolve, reject) => {
       socket.once('connect', resolve);
       socket.once('connect_error', reject);
@@ -219,13 +290,28 @@ async function main() {
     socket.close();
 
     const cpus = os.cpus();
-    out(`pad-tap: ${TAPS} taps, ${os.cpus().length} cores (${cpus[0]?.model ?? '?'}), node ${process.version}, load ${os.loadavg().map((l) => l.toFixed(2)).join(' ')}`);
+    out(
+      `pad-tap: ${TAPS} taps, ${os.cpus().length} cores (${cpus[0]?.model ?? '?'}), node ${process.version}, load ${os
+        .loadavg()
+        .map((l) => l.toFixed(2))
+        .join(' ')}`,
+    );
     out(line('click -> own row (memory)', own));
     out(line('click -> "on this tablet" (IDB)', device));
     out(line('click -> "saved" (server ack)', saved));
     out(line('click -> row on the wall', onWall));
-    out(line('floor: IDB write + row inserted', floorIdb.map((f) => f.committed)));
-    out(line('floor: IDB write + next frame', floorIdb.map((f) => f.painted)));
+    out(
+      line(
+        'floor: IDB write + row inserted',
+        floorIdb.map((f) => f.committed),
+      ),
+    );
+    out(
+      line(
+        'floor: IDB write + next frame',
+        floorIdb.map((f) => f.painted),
+      ),
+    );
     out(line('floor: socket.io round trip', rtt));
   } finally {
     await browser.close();

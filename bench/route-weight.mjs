@@ -24,8 +24,12 @@ const routeChunks = routes.map((route) => {
 });
 if (!entry) throw new Error(`no entry script in ${DIST}/index.html: run pnpm build`);
 
-const staticImports = (code) => [...code.matchAll(/(?:import|export)\s*(?:[\w*${}\s,]*?\s*from\s*)?["']\.\/([\w.-]+\.js)["']/g)].map((m) => m[1]);
-const dynamicImports = (code) => [...code.matchAll(/import\(\s*["'`]\.\/([\w.-]+\.js)["'`]\s*\)/g)].map((m) => m[1]);
+const staticImports = (code) =>
+  [
+    ...code.matchAll(/(?:import|export)\s*(?:[\w*${}\s,]*?\s*from\s*)?["']\.\/([\w.-]+\.js)["']/g),
+  ].map((m) => m[1]);
+const dynamicImports = (code) =>
+  [...code.matchAll(/import\(\s*["'`]\.\/([\w.-]+\.js)["'`]\s*\)/g)].map((m) => m[1]);
 
 const loaded = new Set();
 const lazy = new Set();
@@ -51,6 +55,8 @@ const rows = [...loaded].map((file) => {
 rows.sort((a, b) => b.gz - a.gz);
 const kb = (n) => (n / 1024).toFixed(1).padStart(7);
 for (const r of rows) out(`${kb(r.raw)} KB ${kb(r.gz)} KB gzip  ${r.file}`);
-out(`${kb(raw)} KB ${kb(gz)} KB gzip  TOTAL JavaScript for /codes/:id/record (${rows.length} files)`);
+out(
+  `${kb(raw)} KB ${kb(gz)} KB gzip  TOTAL JavaScript for /codes/:id/record (${rows.length} files)`,
+);
 const later = [...lazy].filter((f) => !loaded.has(f));
 out(`loaded later, on demand: ${later.length} chunks (other routes, the details sheet...)`);

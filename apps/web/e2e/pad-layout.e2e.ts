@@ -64,9 +64,15 @@ async function measure(page: Page) {
     const shocks = [...document.querySelectorAll('[data-testid^="shock-"]')]
       .filter((el) => /^shock-\d+$/.test(el.getAttribute('data-testid') ?? ''))
       .map((el, i) => ({ id: `${el.getAttribute('data-testid')}#${i}`, el }));
-    const wanted = [...ids, 'undo'].map((id) => ({ id, el: document.querySelector(`[data-testid="${id}"]`) }));
+    const wanted = [...ids, 'undo'].map((id) => ({
+      id,
+      el: document.querySelector(`[data-testid="${id}"]`),
+    }));
     const boxes = [...wanted, ...shocks].flatMap(({ id, el }) => {
-      if (!el) return id === 'undo' ? [] : [{ id, missing: true, x: 0, y: 0, w: 0, h: 0, hidden: true, clipped: false }];
+      if (!el)
+        return id === 'undo'
+          ? []
+          : [{ id, missing: true, x: 0, y: 0, w: 0, h: 0, hidden: true, clipped: false }];
       const r = el.getBoundingClientRect();
       // An ancestor that scrolls or clips and cuts the button off hides it.
       let clipped = false;
@@ -74,12 +80,29 @@ async function measure(page: Page) {
         const style = getComputedStyle(a);
         if (style.overflowY !== 'visible' || style.overflowX !== 'visible') {
           const ar = a.getBoundingClientRect();
-          if (r.top < ar.top - 0.5 || r.bottom > ar.bottom + 0.5 || r.left < ar.left - 0.5 || r.right > ar.right + 0.5) clipped = true;
+          if (
+            r.top < ar.top - 0.5 ||
+            r.bottom > ar.bottom + 0.5 ||
+            r.left < ar.left - 0.5 ||
+            r.right > ar.right + 0.5
+          )
+            clipped = true;
         }
       }
       // Text cut inside the button: its content is wider or taller than the box.
       const cut = el.scrollHeight > el.clientHeight + 1 || el.scrollWidth > el.clientWidth + 1;
-      return [{ id, missing: false, x: r.left, y: r.top, w: r.width, h: r.height, hidden: r.width === 0, clipped: clipped || cut }];
+      return [
+        {
+          id,
+          missing: false,
+          x: r.left,
+          y: r.top,
+          w: r.width,
+          h: r.height,
+          hidden: r.width === 0,
+          clipped: clipped || cut,
+        },
+      ];
     });
     return {
       scrollHeight: document.scrollingElement?.scrollHeight ?? 0,
@@ -92,28 +115,47 @@ async function measure(page: Page) {
 }
 
 function overlaps(a: Box, b: Box): boolean {
-  return a.x < b.x + b.w - 0.5 && b.x < a.x + a.w - 0.5 && a.y < b.y + b.h - 0.5 && b.y < a.y + a.h - 0.5;
+  return (
+    a.x < b.x + b.w - 0.5 && b.x < a.x + a.w - 0.5 && a.y < b.y + b.h - 0.5 && b.y < a.y + a.h - 0.5
+  );
 }
 
 async function expectFits(page: Page, label: string) {
   const m = await measure(page);
   const problems: string[] = [];
-  if (m.scrollHeight > m.innerHeight) problems.push(`page scrolls: ${m.scrollHeight} > ${m.innerHeight}`);
-  if (m.scrollWidth > m.innerWidth) problems.push(`page scrolls sideways: ${m.scrollWidth} > ${m.innerWidth}`);
+  if (m.scrollHeight > m.innerHeight)
+    problems.push(`page scrolls: ${m.scrollHeight} > ${m.innerHeight}`);
+  if (m.scrollWidth > m.innerWidth)
+    problems.push(`page scrolls sideways: ${m.scrollWidth} > ${m.innerWidth}`);
   for (const b of m.boxes) {
     if (b.missing) problems.push(`${b.id} missing`);
-    else if (b.x < 0 || b.y < 0 || b.x + b.w > m.innerWidth + 0.5 || b.y + b.h > m.innerHeight + 0.5)
-      problems.push(`${b.id} outside the viewport (${Math.round(b.x)},${Math.round(b.y)} ${Math.round(b.w)}x${Math.round(b.h)})`);
+    else if (
+      b.x < 0 ||
+      b.y < 0 ||
+      b.x + b.w > m.innerWidth + 0.5 ||
+      b.y + b.h > m.innerHeight + 0.5
+    )
+      problems.push(
+        `${b.id} outside the viewport (${Math.round(b.x)},${Math.round(b.y)} ${Math.round(b.w)}x${Math.round(b.h)})`,
+      );
     // WCAG 2.2 target size: our floor is 48 x 48 CSS px.
-    if (!b.missing && (b.w < 48 || b.h < 48)) problems.push(`${b.id} is ${b.w.toFixed(1)}x${b.h.toFixed(1)}`);
-    if (b.clipped) problems.push(`${b.id} cut off (clipped by a container or its own text overflows)`);
+    if (!b.missing && (b.w < 48 || b.h < 48))
+      problems.push(`${b.id} is ${b.w.toFixed(1)}x${b.h.toFixed(1)}`);
+    if (b.clipped)
+      problems.push(`${b.id} cut off (clipped by a container or its own text overflows)`);
   }
   const shown = m.boxes.filter((b) => !b.missing);
   for (let i = 0; i < shown.length; i++)
     for (let j = i + 1; j < shown.length; j++)
       if (overlaps(shown[i]!, shown[j]!)) problems.push(`${shown[i]!.id} overlaps ${shown[j]!.id}`);
-  if (problems.length > 0) console.warn(`[screenshot] ${await screenshot(page, `pad-layout-failed-${label.replace(/[^a-z]+/g, '-')}`)}`);
-  expect(problems, `${label}: ${m.innerWidth}x${m.innerHeight}, page ${m.scrollWidth}x${m.scrollHeight}`).toEqual([]);
+  if (problems.length > 0)
+    console.warn(
+      `[screenshot] ${await screenshot(page, `pad-layout-failed-${label.replace(/[^a-z]+/g, '-')}`)}`,
+    );
+  expect(
+    problems,
+    `${label}: ${m.innerWidth}x${m.innerHeight}, page ${m.scrollWidth}x${m.scrollHeight}`,
+  ).toEqual([]);
   // The shock energies were measured too (five presets for an adult, the weight-based steps for a child).
   expect(m.boxes.filter((b) => /^shock-\d+#/.test(b.id)).length).toBeGreaterThanOrEqual(3);
 }
@@ -185,7 +227,10 @@ describe('the pad on one tablet screen', () => {
           const el = document.activeElement as HTMLElement | null;
           if (!el) return null;
           const s = getComputedStyle(el);
-          return { id: el.getAttribute('data-testid'), ring: s.outlineStyle !== 'none' && parseFloat(s.outlineWidth) >= 2 };
+          return {
+            id: el.getAttribute('data-testid'),
+            ring: s.outlineStyle !== 'none' && parseFloat(s.outlineWidth) >= 2,
+          };
         });
         if (focused?.id === testId) {
           expect(focused.ring, `${testId} shows a focus ring`).toBe(true);
@@ -201,7 +246,11 @@ describe('the pad on one tablet screen', () => {
     await page.keyboard.press('Space');
     await tabTo('drug-epinephrine');
     await page.keyboard.press('Enter');
-    await poll(async () => (await storedLog(page, codeId)).entries.map((e) => e.kind)).toEqual(['cpr', 'rhythm', 'drug']);
+    await poll(async () => (await storedLog(page, codeId)).entries.map((e) => e.kind)).toEqual([
+      'cpr',
+      'rhythm',
+      'drug',
+    ]);
     const log = await storedLog(page, codeId);
     expect(log.entries[1]).toMatchObject({ rhythm: 'vf', pulse: false });
     await ctx.close();

@@ -1,5 +1,10 @@
 import { Box, Stack, Text } from '@chakra-ui/react';
-import { TAPS_NOT_SENSOR, type Code, type DosingSheet, type ProtocolSettings } from '@steadyhand/shared';
+import {
+  TAPS_NOT_SENSOR,
+  type Code,
+  type DosingSheet,
+  type ProtocolSettings,
+} from '@steadyhand/shared';
 import type { LiveClock } from '../../../lib/live/use-live-code';
 import { ArrestTime } from './arrest-time';
 import { CodeDetails } from './code-details';
@@ -7,10 +12,20 @@ import { EditorPanel } from './editor-panel';
 
 /** The dosing sheet's own cautions, folded away but one tap from every dose. */
 function DosingCautions({ sheet }: { sheet: DosingSheet }) {
-  const perDrug = sheet.drugs.flatMap((d) => [...d.cautions, ...d.notes].map((text) => `${d.label}: ${text}`));
+  const perDrug = sheet.drugs.flatMap((d) =>
+    [...d.cautions, ...d.notes].map((text) => `${d.label}: ${text}`),
+  );
   return (
     <Box as="details" data-testid="dosing-cautions">
-      <Box as="summary" cursor="pointer" fontWeight="bold" textStyle="sm" minH="12" display="flex" alignItems="center">
+      <Box
+        as="summary"
+        cursor="pointer"
+        fontWeight="bold"
+        textStyle="sm"
+        minH="12"
+        display="flex"
+        alignItems="center"
+      >
         Dosing cautions and notes ({sheet.cautions.length + perDrug.length})
       </Box>
       <Stack as="ul" gap="1" pl="4" textStyle="xs">
@@ -45,17 +60,25 @@ export default function CodeDetailsSheet({
   sheet: DosingSheet | null;
 }) {
   return (
-    <EditorPanel title="Code details" onCancel={onClose} testId="details-sheet" cancelLabel="Close" cancelTestId="details-close">
+    <EditorPanel
+      title="Code details"
+      onCancel={onClose}
+      testId="details-sheet"
+      cancelLabel="Close"
+      cancelTestId="details-close"
+    >
       <Stack gap="3">
         <CodeDetails code={code} canWrite={canWrite} onSaved={onSaved} />
         <ArrestTime code={code} canWrite={canWrite} onSaved={onSaved} />
         <Text textStyle="sm" color="ink.700" data-testid="clock-offset">
           Clock offset {Math.round(clock.offsetMs)} ms
-          {clock.uncertaintyMs !== null ? ` ± ${Math.round(clock.uncertaintyMs)} ms` : ' (not yet measured)'}
+          {clock.uncertaintyMs !== null
+            ? ` ± ${Math.round(clock.uncertaintyMs)} ms`
+            : ' (not yet measured)'}
         </Text>
         <Text textStyle="xs" color="ink.700">
-          Protocol version {code.protocolVersion ?? 1}: {protocol.edition}. Times shown are when each event happened, as tapped.{' '}
-          {TAPS_NOT_SENSOR}
+          Protocol version {code.protocolVersion ?? 1}: {protocol.edition}. Times shown are when
+          each event happened, as tapped. {TAPS_NOT_SENSOR}
         </Text>
         {sheet?.status === 'ready' ? (
           <Text textStyle="sm" fontWeight="bold">

@@ -242,6 +242,7 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
       direction="column"
       gap="2"
       h={{ base: 'auto', md: 'full' }}
+      pb={{ base: '28', md: '0' }}
       data-testid="recorder-pad"
       data-code-id={code.id}
     >
@@ -334,7 +335,7 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
               onOtherDrug={onOtherDrug}
             />
             <Grid
-              templateColumns={{ base: 'repeat(2, minmax(0, 1fr))', md: '1.1fr 1.2fr 0.7fr 1.2fr' }}
+              templateColumns={{ base: 'minmax(0, 1fr)', sm: 'repeat(2, minmax(0, 1fr))', md: '1.1fr 1.2fr 0.7fr 1.2fr' }}
               gap="2"
             >
               <EventGroup onTap={tap} onNote={onNote} disabled={noWrite} />
@@ -347,6 +348,16 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
 
         <Flex gridArea="side" direction="column" gap="2" minW="0" minH="0">
           {noWrite ? null : (
+            // On a phone the list is far below the buttons: Undo floats at the bottom edge there.
+            <Box
+              position={{ base: 'fixed', md: 'static' }}
+              bottom={{ base: '0', md: 'auto' }}
+              left={{ base: '0', md: 'auto' }}
+              right={{ base: '0', md: 'auto' }}
+              zIndex={{ base: 'docked', md: 'auto' }}
+              p={{ base: '2', md: '0' }}
+              flexShrink={0}
+            >
             <UndoBar
               tap={lastTap}
               protocol={protocol}
@@ -357,6 +368,7 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
                   : undefined
               }
             />
+            </Box>
           )}
           {snapshot.flaggedDoses.length > 0 ? (
             <Box bg="signal.50" borderWidth="2px" borderColor="signal.500" borderRadius="l2" px="2" py="1" data-testid="flagged-doses">
