@@ -56,11 +56,6 @@ export default defineConfig({
               test: /node_modules[\\/](react|react-dom|scheduler|react-router)[\\/]/,
               priority: 4,
             },
-            {
-              name: 'chakra',
-              test: /node_modules[\\/](@chakra-ui|@ark-ui|@zag-js|@emotion|@floating-ui|@internationalized|@pandacss|proxy-compare|stylis)/,
-              priority: 3,
-            },
             { name: 'query', test: /node_modules[\\/]@tanstack[\\/]/, priority: 2 },
             { name: 'zod', test: /node_modules[\\/]zod[\\/]/, priority: 2 },
             {

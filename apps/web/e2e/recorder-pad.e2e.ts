@@ -3,6 +3,7 @@ import { newContext, screenshot, signInAs, useServerAndBrowser } from './support
 import {
   arrivalOf,
   poll,
+  setWeight,
   startCodeFromHome,
   storedLog,
   tap,
@@ -174,11 +175,7 @@ describe('the recorder pad, in Chromium on a tablet', () => {
     const codeId = await startCodeFromHome(pad, 'child');
     await pad.getByTestId('pediatric-caution').waitFor();
     expect(await pad.getByTestId('pediatric-caution').innerText()).toContain('Double-check every weight-based dose with a second person.');
-    await pad.getByTestId('details-weight').click();
-    await pad.getByTestId('weight-source-measured').click();
-    await pad.getByTestId('numpad-1').click();
-    await pad.getByTestId('numpad-8').click();
-    await pad.getByTestId('number-save').click();
+    await setWeight(pad, 18);
     // PALS medications table: epinephrine 0.01 mg/kg (0.18 mg for 18 kg); AHA 2020 PALS: first shock 2 J/kg (36 J).
     await poll(() => pad.getByTestId('drug-epinephrine').innerText()).toContain('0.18 mg');
     expect(await pad.getByTestId('drug-epinephrine').innerText()).toContain('0.01 mg/kg × 18 kg');

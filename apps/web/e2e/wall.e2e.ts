@@ -1,7 +1,8 @@
 import type { BrowserContext, Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { newContext, screenshot, signInAs, useServerAndBrowser } from './support/browser.js';
-import { poll, startCodeFromHome, tap } from './support/pad.js';
+import { expectAccessible } from './support/axe.js';
+import { poll, setWeight, startCodeFromHome, tap } from './support/pad.js';
 
 const WALL_SCREEN = { width: 1920, height: 1080 };
 const MINUTE = 60_000;
@@ -193,10 +194,7 @@ describe('the timer wall, in Chromium on a 1080p screen', () => {
     const pad = await ctx.newPage();
     await signInAs(pad, 'kofi.asante');
     const codeId = await startCodeFromHome(pad, 'child');
-    await pad.getByTestId('details-weight').click();
-    await pad.getByTestId('numpad-2').click();
-    await pad.getByTestId('numpad-0').click();
-    await pad.getByTestId('number-save').click();
+    await setWeight(pad, 20);
     await poll(() => pad.getByTestId('drug-epinephrine').innerText()).toContain('0.2 mg');
     await tap(pad, 'cpr-start');
 
@@ -211,6 +209,7 @@ describe('the timer wall, in Chromium on a 1080p screen', () => {
     expect(await dosing.innerText()).toContain('0.2 mg');
     expect(await dosing.innerText()).toMatch(/40 J/);
     console.warn(`[screenshot] ${await screenshot(wall, 'wall-pediatric')}`);
+    await expectAccessible(wall, 'wall (child)');
     // The wall is read across the room: at 1920×1080 nothing may need scrolling, doses included.
     expect(await wall.evaluate(() => document.documentElement.scrollHeight)).toBeLessThanOrEqual(1080);
     await wallCtx.close();

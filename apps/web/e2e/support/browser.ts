@@ -3,6 +3,7 @@ import { createRequire } from 'node:module';
 import path from 'node:path';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 import { afterAll, beforeAll } from 'vitest';
+import { expectAccessible } from './axe.js';
 import { DEMO_PASSWORD, REPO_ROOT, startServer, type RunningServer } from './server.js';
 
 export const SCREENSHOTS = path.join(REPO_ROOT, 'test-results', 'screenshots');
@@ -34,10 +35,13 @@ export async function newContext(browser: Browser, baseUrl: string, viewport = T
 
 export async function signInAs(page: Page, username: string, password = DEMO_PASSWORD): Promise<void> {
   await page.goto('/sign-in');
+  await page.getByLabel('Username').waitFor();
+  await expectAccessible(page, 'sign-in');
   await page.getByLabel('Username').fill(username);
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.getByTestId('home-heading').waitFor();
+  await expectAccessible(page, 'home');
 }
 
 // otplib is the server's dependency; the tests compute codes with it exactly as a phone would.

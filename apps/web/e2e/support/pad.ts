@@ -1,5 +1,6 @@
 import type { Page } from 'playwright-core';
 import { expect } from 'vitest';
+import { expectAccessible } from './axe.js';
 
 /** expect.poll with a timeout fit for a loaded two-core machine (the default is 1 s). */
 export function poll<T>(fn: () => T | Promise<T>, options: { timeout?: number } = {}) {
@@ -12,6 +13,7 @@ export async function startCodeFromHome(page: Page, category: 'adult' | 'child' 
   await page.getByTestId(`start-${category}`).click();
   await page.waitForURL(/\/codes\/[^/]+\/record$/);
   await page.getByTestId('recorder-pad').waitFor();
+  await expectAccessible(page, `recorder pad (${category})`);
   const match = /\/codes\/([^/]+)\/record$/.exec(new URL(page.url()).pathname);
   if (!match?.[1]) throw new Error(`no code id in ${page.url()}`);
   return decodeURIComponent(match[1]);
@@ -103,4 +105,16 @@ export async function storedLog(page: Page, codeId: string): Promise<StoredLog> 
     if (!res.ok) throw new Error(`GET /api/codes/${id} answered ${res.status}`);
     return (await res.json()) as StoredLog;
   }, codeId);
+}
+
+/** Opens the code's details from the pad's header, sets a measured weight on the number pad, and closes the sheet. */
+export async function setWeight(page: Page, kg: number): Promise<void> {
+  if (!(await page.getByTestId('details-weight').isVisible())) await page.getByTestId('pad-details').click();
+  await page.getByTestId('details-weight').click();
+  await page.getByTestId('weight-source-measured').click();
+  for (const digit of String(kg)) await page.getByTestId(digit === '.' ? 'numpad-dot' : `numpad-${digit}`).click();
+  await page.getByTestId('number-save').click();
+  await poll(() => page.getByTestId('header-weight').innerText()).toContain(`${kg} kg`);
+  await page.getByTestId('details-close').click();
+  await page.getByTestId('details-sheet').waitFor({ state: 'detached' });
 }

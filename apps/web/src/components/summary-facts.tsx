@@ -1,4 +1,4 @@
-import { DataList, SimpleGrid } from '@chakra-ui/react';
+import { DataList } from '@chakra-ui/react';
 import { flaggedDoseText, SUMMARY_DEFINITIONS, type CodeSummary } from '@steadyhand/shared';
 import { formatDateTime, formatPercent, formatSeconds } from '../lib/format';
 import { OUTCOME_WORDS, RHYTHM_WORDS } from '../lib/live/entry-words';
@@ -26,15 +26,22 @@ export function SummaryFacts({ summary }: { summary: CodeSummary }) {
     ['Drugs', summary.drugTotals.map((d) => `${d.label} ${d.total} ${d.unit} (${d.doses})`).join('; ') || 'None', SUMMARY_DEFINITIONS.drugTotals],
   ];
   return (
-    <DataList.Root orientation="horizontal" size="lg" data-testid="code-summary">
-      <SimpleGrid columns={{ base: 1, md: 2 }} gapX="8" gapY="3">
+    // The list itself is the grid: a <dl> may hold only its items (axe: definition-list).
+    <DataList.Root
+      orientation="horizontal"
+      size="lg"
+      data-testid="code-summary"
+      display="grid"
+      gridTemplateColumns={{ base: 'minmax(0, 1fr)', md: 'repeat(2, minmax(0, 1fr))' }}
+      columnGap="8"
+      rowGap="3"
+    >
         {facts.map(([label, value, definition]) => (
           <DataList.Item key={label} title={definition}>
             <DataList.ItemLabel minW="12rem">{label}</DataList.ItemLabel>
             <DataList.ItemValue fontWeight="bold">{value}</DataList.ItemValue>
           </DataList.Item>
         ))}
-      </SimpleGrid>
     </DataList.Root>
   );
 }

@@ -1,4 +1,83 @@
-import { createSystem, defaultConfig, defineConfig } from '@chakra-ui/react';
+import { createSystem, defaultBaseConfig, defineConfig } from '@chakra-ui/react';
+import {
+  alertSlotRecipe,
+  animationStyles,
+  badgeRecipe,
+  breakpoints,
+  buttonRecipe,
+  checkboxSlotRecipe,
+  checkmarkRecipe,
+  codeRecipe,
+  containerRecipe,
+  dataListSlotRecipe,
+  dialogSlotRecipe,
+  fieldSlotRecipe,
+  fieldsetSlotRecipe,
+  globalCss,
+  headingRecipe,
+  iconRecipe,
+  inputRecipe,
+  keyframes,
+  layerStyles,
+  linkRecipe,
+  listSlotRecipe,
+  nativeSelectSlotRecipe,
+  semanticTokens,
+  separatorRecipe,
+  sliderSlotRecipe,
+  spinnerRecipe,
+  tableSlotRecipe,
+  textareaRecipe,
+  textStyles,
+  tokens,
+} from '@chakra-ui/react/theme';
+
+/*
+ * Chakra's theme with only the recipes of the components this app uses (Chakra's own
+ * `defaultConfig` carries every component's recipe, about 30 KB gzipped, into every page, the
+ * recorder pad's first load included). A component added to the app needs its recipe here.
+ */
+const chakraTheme = defineConfig({
+  preflight: true,
+  cssVarsPrefix: 'chakra',
+  cssVarsRoot: ':where(html, .chakra-theme)',
+  globalCss,
+  theme: {
+    breakpoints,
+    keyframes,
+    tokens,
+    semanticTokens,
+    textStyles,
+    layerStyles,
+    animationStyles,
+    recipes: {
+      badge: badgeRecipe,
+      button: buttonRecipe,
+      checkmark: checkmarkRecipe,
+      code: codeRecipe,
+      container: containerRecipe,
+      heading: headingRecipe,
+      icon: iconRecipe,
+      input: inputRecipe,
+      link: linkRecipe,
+      separator: separatorRecipe,
+      spinner: spinnerRecipe,
+      textarea: textareaRecipe,
+    },
+    slotRecipes: {
+      alert: alertSlotRecipe,
+      checkbox: checkboxSlotRecipe,
+      dataList: dataListSlotRecipe,
+      dialog: dialogSlotRecipe,
+      field: fieldSlotRecipe,
+      fieldset: fieldsetSlotRecipe,
+      list: listSlotRecipe,
+      nativeSelect: nativeSelectSlotRecipe,
+      slider: sliderSlotRecipe,
+      table: tableSlotRecipe,
+    },
+  },
+});
 
 /*
  * Steadyhand's own look. Deep ink navy for the frame, a calm sea-glass teal for what you can
@@ -181,7 +260,7 @@ const config = defineConfig({
     slotRecipes: {
       field: {
         // The same slots as Chakra's own field recipe, so the merge adds none.
-        slots: defaultConfig.theme?.slotRecipes?.field?.slots ?? [],
+        slots: fieldSlotRecipe.slots ?? [],
         base: {
           label: { textStyle: 'lg', fontWeight: 'bold' },
           errorText: { textStyle: 'md', fontWeight: 'bold' },
@@ -192,4 +271,4 @@ const config = defineConfig({
   },
 });
 
-export const system = createSystem(defaultConfig, config);
+export const system = createSystem(defaultBaseConfig, chakraTheme, config);

@@ -32,7 +32,8 @@ export function AppShell({ userName, actions, notice, children }: AppShellProps)
   }, [location.pathname]);
 
   return (
-    <Flex direction="column" minH="100dvh">
+    // On a tablet the pad is exactly one screen high: it must never need scrolling.
+    <Flex direction="column" minH="100dvh" h={onPad ? { base: 'auto', md: '100dvh' } : undefined}>
       <SkipLink />
       <Box as="header" bg="bg.header" color="fg.header">
         <Container maxW={onPad ? 'full' : '6xl'} py={onPad ? '1' : '3'}>
@@ -73,13 +74,15 @@ export function AppShell({ userName, actions, notice, children }: AppShellProps)
         ref={mainRef}
         tabIndex={-1}
         flex="1"
+        minH="0"
         outline="none"
         _focusVisible={{ outline: 'none' }}
       >
         <Container
           maxW={onPad ? 'full' : '6xl'}
           px={onPad ? { base: '3', md: '4' } : undefined}
-          py={onPad ? '3' : { base: '6', md: '10' }}
+          py={onPad ? '2' : { base: '6', md: '10' }}
+          h={onPad ? { base: 'auto', md: 'full' } : undefined}
         >
           {children}
         </Container>

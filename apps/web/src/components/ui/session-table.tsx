@@ -41,7 +41,7 @@ interface SessionTableProps {
 export function SessionTable({ sessions, showPerson, onEnd, ending }: SessionTableProps) {
   if (sessions.length === 0) return <Text color="fg.muted">No one is signed in.</Text>;
   return (
-    <Table.ScrollArea borderWidth="1px" borderRadius="l2">
+    <Table.ScrollArea borderWidth="1px" borderRadius="l2" tabIndex={0} role="region" aria-label="Sessions, scrolls sideways">
       <Table.Root size="md" data-testid="session-table">
         <Table.Header>
           <Table.Row>
@@ -81,7 +81,8 @@ export function SessionTable({ sessions, showPerson, onEnd, ending }: SessionTab
                   variant="outline"
                   colorPalette="red"
                   loading={ending === s.id}
-                  aria-label={`End session of ${s.displayName} on ${describeDevice(s.userAgent)}`}
+                  // The visible words start the name (WCAG 2.5.3); whose and which device follow.
+                  aria-label={`${s.current ? 'Sign out here' : 'End session'}: ${s.displayName} on ${describeDevice(s.userAgent)}`}
                   onClick={() => onEnd(s)}
                 >
                   {s.current ? 'Sign out here' : 'End session'}

@@ -4,6 +4,10 @@ import type { LiveLink } from './live-socket';
 import type { OutboxRecord } from './outbox';
 import {
   ALARM_AFTER_MS,
+  buildCodeView,
+  entryStage,
+  recordTap,
+  type DraftTap,
   classifyAck,
   mergeLog,
   OutboxAlarm,
@@ -228,5 +232,56 @@ describe('OutboxSender: the check before sending', () => {
     await vi.waitFor(() => expect(fake.sent).toHaveLength(2));
     expect((fake.sent[1]?.payload as { entry: NewEntry }).entry.id).toBe(uuid(3));
     quiet.mockRestore();
+  });
+});
+
+describe('the stages of a tap: recording, on this tablet, saved', () => {
+  const draft = entry(9, '2026-03-04T07:42:30.000Z');
+  const stageIn = (view: ReturnType<typeof buildCodeView>) => entryStage(draft.id, view);
+
+  it('shows a tap from memory as recording, then on this tablet once in the outbox, then saved once stored', () => {
+    const drafts = new Map<string, DraftTap>([[draft.id, { entry: draft, error: null }]]);
+    const memory = buildCodeView('code-1', new Map(), [], drafts);
+    expect(memory.entries.map((e) => e.id)).toEqual([draft.id]);
+    expect(stageIn(memory)).toBe('recording');
+
+    // Written: the outbox holds it (the draft may linger a moment; the outbox copy wins).
+    const record: OutboxRecord = { id: draft.id, codeId: 'code-1', seq: 9, createdAt: 1, entry: draft, status: 'pending' };
+    const onDevice = buildCodeView('code-1', new Map(), [record], drafts);
+    expect(onDevice.entries).toHaveLength(1);
+    expect(stageIn(onDevice)).toBe('on-device');
+
+    const saved = buildCodeView('code-1', new Map([[draft.id, stored(draft, 3)]]), [record], new Map());
+    expect(saved.entries).toHaveLength(1);
+    expect(saved.entries[0]?.cursor).toBe(3);
+    expect(stageIn(saved)).toBe('saved');
+  });
+
+  it('keeps a tap whose IndexedDB write failed out of the log and lists it as not kept', () => {
+    const drafts = new Map<string, DraftTap>([[draft.id, { entry: draft, error: 'QuotaExceededError' }]]);
+    const view = buildCodeView('code-1', new Map(), [], drafts);
+    expect(view.entries).toHaveLength(0);
+    expect(view.unkept).toEqual([{ entry: draft, error: 'QuotaExceededError' }]);
+  });
+
+  it('recordTap shows the draft before the write, hands the record to the sender only after it, and flags a failed write', async () => {
+    const events: string[] = [];
+    const view = {
+      addDraft: (e: NewEntry) => events.push(`draft ${e.id}`),
+      draftKept: (id: string) => events.push(`kept ${id}`),
+      draftFailed: (id: string, error: string) => events.push(`failed ${id} ${error}`),
+    };
+    const record = { id: draft.id, entry: draft };
+    let finishWrite: (r: typeof record) => void = () => undefined;
+    const pending = recordTap(draft, view, () => new Promise<typeof record>((resolve) => (finishWrite = resolve)), () => events.push('sent'));
+    // Synchronously, before the write settles, the draft is already shown.
+    expect(events).toEqual([`draft ${draft.id}`]);
+    finishWrite(record);
+    await pending;
+    expect(events).toEqual([`draft ${draft.id}`, 'sent', `kept ${draft.id}`]);
+
+    events.length = 0;
+    await expect(recordTap(draft, view, () => Promise.reject(new Error('disk full')), () => events.push('sent'))).rejects.toThrow('disk full');
+    expect(events).toEqual([`draft ${draft.id}`, `failed ${draft.id} disk full`]);
   });
 });

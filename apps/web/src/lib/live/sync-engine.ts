@@ -359,11 +359,94 @@ export function logCopyDiffers(
  * One open code: its stored log, kept in step with the server and cached on the device
  * ------------------------------------------------------------------------------------------- */
 
+/**
+ * Where a tap is on its way, as the pad shows it: `recording` (in memory, the IndexedDB write not
+ * yet committed: shown as pending, never as kept), `on-device` (in the outbox, waiting for the
+ * server), `saved` (the server acknowledged it after its commit).
+ */
+export type EntryStage = 'recording' | 'on-device' | 'saved';
+
+/** A tap whose IndexedDB write failed: it is in no log and must be said loudly. */
+export interface UnkeptTap {
+  entry: NewEntry;
+  error: string;
+}
+
+/** A tap held in memory from the click until its IndexedDB write settles. */
+export interface DraftTap {
+  entry: NewEntry;
+  /** Set when the write failed. */
+  error: string | null;
+}
+
+export function entryStage(
+  id: string,
+  view: { recordingIds: ReadonlySet<string>; pendingIds: ReadonlySet<string> },
+): EntryStage {
+  if (view.recordingIds.has(id)) return 'recording';
+  if (view.pendingIds.has(id)) return 'on-device';
+  return 'saved';
+}
+
+/**
+ * The log one code shows, from the server's stored entries, this device's outbox and the taps
+ * still being written: a stored copy wins over the outbox's, the outbox's over the memory's.
+ * A draft whose write failed is kept out of the log (it was never kept) and listed as unkept.
+ */
+export function buildCodeView(
+  codeId: string,
+  stored: ReadonlyMap<string, StoredEntry>,
+  records: readonly OutboxRecord[],
+  drafts: ReadonlyMap<string, DraftTap>,
+): Pick<CodeSyncSnapshot, 'entries' | 'pendingIds' | 'recordingIds' | 'failed' | 'unkept'> {
+  const mine = records.filter((r) => r.codeId === codeId);
+  const inOutbox = new Set(mine.map((r) => r.id));
+  const pending = mine.filter((r) => r.status === 'pending' && !stored.has(r.id));
+  const recording = [...drafts.values()].filter(
+    (d) => d.error === null && !stored.has(d.entry.id) && !inOutbox.has(d.entry.id),
+  );
+  return {
+    entries: mergeLog(stored.values(), [...pending.map((r) => r.entry), ...recording.map((d) => d.entry)]),
+    pendingIds: new Set(pending.map((r) => r.id)),
+    recordingIds: new Set(recording.map((d) => d.entry.id)),
+    failed: mine.filter((r) => r.status === 'failed' && !stored.has(r.id)),
+    unkept: [...drafts.values()].flatMap((d) => (d.error === null ? [] : [{ entry: d.entry, error: d.error }])),
+  };
+}
+
+/**
+ * One tap's way: shown from memory at once (same frame as the click), then written to the
+ * outbox; only once that write committed is it handed to the sender and shown as on this
+ * device. A failed write stays on screen as unkept, and the promise rejects.
+ */
+export async function recordTap<R extends { id: string; entry: NewEntry }>(
+  draft: NewEntry,
+  view: { addDraft(entry: NewEntry): void; draftKept(id: string): void; draftFailed(id: string, error: string): void },
+  write: () => Promise<R>,
+  send: (record: R) => void,
+): Promise<R> {
+  view.addDraft(draft);
+  let record: R;
+  try {
+    record = await write();
+  } catch (err) {
+    view.draftFailed(draft.id, err instanceof Error ? err.message : String(err));
+    throw err;
+  }
+  send(record);
+  view.draftKept(draft.id);
+  return record;
+}
+
 export interface CodeSyncSnapshot {
-  /** Stored and waiting entries, merged, in log order. */
+  /** Stored, waiting and still-recording entries, merged, in log order. */
   entries: LogEntry[];
   /** Ids of entries in this device's outbox, not yet acknowledged. */
   pendingIds: ReadonlySet<string>;
+  /** Ids of taps shown from memory whose IndexedDB write has not committed yet. */
+  recordingIds: ReadonlySet<string>;
+  /** Taps whose IndexedDB write failed. */
+  unkept: UnkeptTap[];
   /** Entries the server refused; they stay on screen until someone acts. */
   failed: OutboxRecord[];
   /** True once the log cache (or the server) has been read. */
@@ -381,6 +464,7 @@ const CACHE_WRITE_DELAY_MS = 150;
 
 export class CodeSync {
   private readonly stored = new Map<string, StoredEntry>();
+  private readonly drafts = new Map<string, DraftTap>();
   private cursor = 0;
   private code: Code | null = null;
   private loaded = false;
@@ -455,6 +539,24 @@ export class CodeSync {
     return () => this.listeners.delete(listener);
   };
 
+  /** A tap shown from memory before its IndexedDB write. */
+  addDraft(entry: NewEntry): void {
+    this.drafts.set(entry.id, { entry, error: null });
+    this.refresh();
+  }
+
+  /** The draft's write committed: from now on the outbox shows it. */
+  draftKept(id: string): void {
+    if (this.drafts.delete(id)) this.refresh();
+  }
+
+  draftFailed(id: string, error: string): void {
+    const d = this.drafts.get(id);
+    if (!d) return;
+    this.drafts.set(id, { ...d, error });
+    this.refresh();
+  }
+
   /** The code and its whole stored log, read over REST. */
   applyServerCopy(code: Code, entries: StoredEntry[]): void {
     this.code = code;
@@ -518,15 +620,8 @@ export class CodeSync {
   }
 
   private build(): CodeSyncSnapshot {
-    const mine = this.sender.getRecords().filter((r) => r.codeId === this.codeId);
-    const pending = mine.filter((r) => r.status === 'pending' && !this.stored.has(r.id));
     return {
-      entries: mergeLog(
-        this.stored.values(),
-        pending.map((r) => r.entry),
-      ),
-      pendingIds: new Set(pending.map((r) => r.id)),
-      failed: mine.filter((r) => r.status === 'failed' && !this.stored.has(r.id)),
+      ...buildCodeView(this.codeId, this.stored, this.sender.getRecords(), this.drafts),
       loaded: this.loaded,
       joined: this.joined,
       code: this.code,

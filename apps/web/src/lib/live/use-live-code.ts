@@ -24,11 +24,16 @@ import {
 import { LogRefill } from './refill';
 import {
   CodeSync,
+  entryStage,
   OutboxAlarm,
+  recordTap,
   OutboxSender,
   outboxHealth,
   type CodeSyncSnapshot,
+  type EntryStage,
+  type UnkeptTap,
 } from './sync-engine';
+import { buildEntry } from './entry-build';
 
 /* One link, one clock and one sender per tab; one CodeSync per open code, shared by hooks. */
 
@@ -138,10 +143,14 @@ export interface LiveCode {
   protocol: ProtocolSettings | null;
   entries: LogEntry[];
   pendingIds: ReadonlySet<string>;
+  /** Where an entry is on its way: recording (memory), on this device (IndexedDB), saved (server). */
+  stageOf: (id: string) => EntryStage;
+  /** Taps whose IndexedDB write failed: never kept, shown loudly. */
+  unkept: UnkeptTap[];
   failed: OutboxRecord[];
   sync: LiveSyncState;
   clock: LiveClock;
-  /** Records a tap: resolves once it is in the outbox (saved on this device). */
+  /** Records a tap: shown at once as recording; resolves once it is in the outbox (saved on this device). */
   record: (fields: EntryFields) => Promise<NewEntry>;
   retryFailed: (id: string) => Promise<void>;
   /** After a PATCH: the new details, here and in the device's cache. */
@@ -214,17 +223,25 @@ export function useLiveCode(codeId: string): LiveCode {
       const state = c.getState();
       // The time of the tap, read before anything else can delay it.
       const atMs = c.correctedNow();
-      const rec = await addToOutbox(codeId, fields, {
+      const stamp = {
         id: crypto.randomUUID(),
         atMs,
         offsetMs: state.offsetMs,
         offsetUncertaintyMs: state.uncertaintyMs,
-      });
-      s.add(rec);
+      };
+      // The memory copy has no device sequence yet: the outbox write gives it one.
+      const draft = buildEntry(fields, { ...stamp, deviceId: 'this-device', seq: Number.MAX_SAFE_INTEGER });
+      const rec = await recordTap(
+        draft,
+        sync,
+        () => addToOutbox(codeId, fields, stamp),
+        (r) => s.add(r),
+      );
       return rec.entry;
     },
-    [codeId],
+    [codeId, sync],
   );
+  const stageOf = useCallback((id: string) => entryStage(id, snap), [snap]);
 
   const queryClient = useQueryClient();
   const setCode = useCallback(
@@ -250,6 +267,8 @@ export function useLiveCode(codeId: string): LiveCode {
     protocol: protocolQuery.data ?? null,
     entries: snap.entries,
     pendingIds: snap.pendingIds,
+    stageOf,
+    unkept: snap.unkept,
     failed: snap.failed,
     sync: {
       connected: link.connected,

@@ -70,7 +70,7 @@ export function AuditViewer() {
         </HStack>
       </form>
       {audit.isError ? <ErrorMessage message="The audit trail could not be loaded." /> : null}
-      <Table.ScrollArea borderWidth="1px" borderRadius="l2">
+      <Table.ScrollArea borderWidth="1px" borderRadius="l2" tabIndex={0} role="region" aria-label="Audit trail, scrolls sideways">
         <Table.Root size="sm" data-testid="audit-table">
           <Table.Header>
             <Table.Row>

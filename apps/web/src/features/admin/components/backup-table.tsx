@@ -25,7 +25,7 @@ export function describeBackupCheck(check: BackupCheck | null): string {
 export function BackupTable({ copies }: { copies: BackupCopy[] }) {
   if (copies.length === 0) return <Text color="fg.muted">No copies yet.</Text>;
   return (
-    <Table.ScrollArea borderWidth="1px" borderRadius="l2">
+    <Table.ScrollArea borderWidth="1px" borderRadius="l2" tabIndex={0} role="region" aria-label="Backups, scrolls sideways">
       <Table.Root size="md" data-testid="backup-table">
         <Table.Header>
           <Table.Row>

@@ -158,7 +158,7 @@ function DoseScheduleFields({ drugIndex, drugName, category }: { drugIndex: numb
           {words} doses, in order
         </Heading>
         {category === 'pediatric' ? (
-          <Button variant="ghost" colorPalette="red" onClick={() => setValue(base, undefined, { shouldDirty: true })} aria-label={`Remove the pediatric doses of ${drugName}`}>
+          <Button variant="ghost" colorPalette="red" onClick={() => setValue(base, undefined, { shouldDirty: true })} aria-label={`No pediatric dose for ${drugName}: removes its pediatric doses`}>
             No pediatric dose
           </Button>
         ) : null}

@@ -89,7 +89,7 @@ function RatesChart({ groups }: { groups: QualityGroupStats[] }) {
   });
   return (
     <ResponsiveContainer width="100%" height={300}>
-      <BarChart data={data}>
+      <BarChart accessibilityLayer={false} data={data}>
         <CartesianGrid strokeDasharray="3 3" />
         <XAxis dataKey="label" />
         <YAxis domain={[0, 100]} unit="%" />

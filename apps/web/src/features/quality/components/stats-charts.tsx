@@ -43,7 +43,7 @@ function TargetShareChart({ groups, id, title }: { groups: QualityGroupStats[]; 
       note="Share of the codes each target applies to that met it; the table gives met / applicable."
       chart={
         <ResponsiveContainer width="100%" height={300}>
-          <BarChart data={data}>
+          <BarChart accessibilityLayer={false} data={data}>
             <CartesianGrid strokeDasharray="3 3" />
             <XAxis dataKey="label" />
             <YAxis domain={[0, 100]} unit="%" />
@@ -100,7 +100,7 @@ function IntervalChart({ groups }: { groups: QualityGroupStats[] }) {
       note="The table gives median (interquartile range) in minutes:seconds, and how many codes had the time point."
       chart={
         <ResponsiveContainer width="100%" height={300}>
-          <BarChart data={data}>
+          <BarChart accessibilityLayer={false} data={data}>
             <CartesianGrid strokeDasharray="3 3" />
             <XAxis dataKey="label" />
             <YAxis unit=" s" />
@@ -150,7 +150,7 @@ function CompressionFractionChart({ stats }: { stats: QualityStats }) {
       note={`Median (interquartile range) over all codes: ${iqr(stats.overall.compressionFraction, (v) => formatPercent(v))}. Target: at least 80%. ${TAPS_NOT_SENSOR}`}
       chart={
         <ResponsiveContainer width="100%" height={300}>
-          <BarChart data={stats.compressionFractionBins}>
+          <BarChart accessibilityLayer={false} data={stats.compressionFractionBins}>
             <CartesianGrid strokeDasharray="3 3" />
             <XAxis dataKey="label" />
             <YAxis allowDecimals={false} />

@@ -34,7 +34,7 @@ export function ArrestTime({ code, canWrite, onSaved }: { code: Code; canWrite: 
         disabled={!canWrite}
         onClick={() => setOpen(true)}
         data-testid="arrest-time"
-        aria-label={`Arrest recognised at ${dayjs(code.arrestAt).format('HH:mm:ss')}. Change when the arrest was recognised`}
+        aria-description="Change when the arrest was recognised"
       >
         Arrest {dayjs(code.arrestAt).format('HH:mm:ss')}
         {moved ? ' (set earlier)' : ''} · change

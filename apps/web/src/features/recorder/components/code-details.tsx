@@ -5,7 +5,8 @@ import { ErrorMessage } from '../../../components/ui/error-message';
 import { usePlaces } from '../api/get-places';
 import { useUpdateCode } from '../api/update-code';
 import { formatDose } from '../../../lib/live/entry-words';
-import { EditorPanel, NumberEditor } from './editor-panel';
+import { EditorPanel } from './editor-panel';
+import { NumberEditor } from './editors';
 import { PadGroup } from './pad-group';
 
 export const WEIGHT_SOURCE_WORDS: Record<WeightSource, string> = {

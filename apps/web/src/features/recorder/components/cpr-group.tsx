@@ -1,4 +1,5 @@
 import { SimpleGrid, Stack, Text } from '@chakra-ui/react';
+import { memo } from 'react';
 import { PadButton } from './pad-button';
 import { PadGroup } from './pad-group';
 import type { Tap } from './types';
@@ -11,7 +12,7 @@ const PAUSES = [
 ] as const;
 
 /** Start, pause (with why), swap. The layout never moves; what is expected next is drawn heavier. */
-export function CprGroup({
+export const CprGroup = memo(function CprGroup({
   running,
   onTap,
   disabled,
@@ -22,21 +23,33 @@ export function CprGroup({
 }) {
   return (
     <PadGroup title="Compressions" id="cpr" accent="seaglass.600">
-      <Stack gap="2">
-        <PadButton
-          label="Start compressions"
-          detail={running ? 'running now' : 'not running'}
-          emphasis={!running}
-          colorPalette="brand"
-          disabled={disabled}
-          data-testid="cpr-start"
-          aria-label="Start compressions"
-          onClick={() => onTap({ kind: 'cpr', action: 'start' })}
-        />
-        <Text textStyle="sm" fontWeight="bold" color="ink.700" id="cpr-pause-label">
+      <Stack gap="1.5">
+        <SimpleGrid columns={2} gap="1.5">
+          <PadButton
+            label="Start"
+            detail={running ? 'running now' : 'not running'}
+            emphasis={!running}
+            colorPalette="brand"
+            height="compact"
+            disabled={disabled}
+            data-testid="cpr-start"
+            aria-label="Start compressions"
+            onClick={() => onTap({ kind: 'cpr', action: 'start' })}
+          />
+          <PadButton
+            label="Swap"
+            detail="compressor"
+            height="compact"
+            disabled={disabled}
+            data-testid="cpr-swap"
+            aria-label="Swap compressor"
+            onClick={() => onTap({ kind: 'cpr', action: 'swap' })}
+          />
+        </SimpleGrid>
+        <Text textStyle="xs" fontWeight="bold" color="ink.700" id="cpr-pause-label" lineHeight="1">
           Pause for
         </Text>
-        <SimpleGrid columns={2} gap="2" role="group" aria-labelledby="cpr-pause-label">
+        <SimpleGrid columns={2} gap="1.5" role="group" aria-labelledby="cpr-pause-label">
           {PAUSES.map((p) => (
             <PadButton
               key={p.reason}
@@ -50,14 +63,7 @@ export function CprGroup({
             />
           ))}
         </SimpleGrid>
-        <PadButton
-          label="Swap compressor"
-          height="compact"
-          disabled={disabled}
-          data-testid="cpr-swap"
-          onClick={() => onTap({ kind: 'cpr', action: 'swap' })}
-        />
       </Stack>
     </PadGroup>
   );
-}
+});

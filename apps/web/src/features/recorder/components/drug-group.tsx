@@ -9,7 +9,7 @@ import {
   type NextDose,
   type ProtocolSettings,
 } from '@steadyhand/shared';
-import { useEffect, useState } from 'react';
+import { useEffect, useState, memo } from 'react';
 import { formatDose, ROUTE_WORDS } from '../../../lib/live/entry-words';
 import { PadButton } from './pad-button';
 import { PadGroup } from './pad-group';
@@ -40,7 +40,7 @@ interface DrugGroupProps {
  * One tap records the next dose from the protocol (or the weight-based sheet) by the default
  * route; the dose and route can be changed right after from the Undo bar.
  */
-export function DrugGroup({ protocol, sheet, nextDoses, totals, pediatric, disabled, onDrug, onOtherDrug }: DrugGroupProps) {
+export const DrugGroup = memo(function DrugGroup({ protocol, sheet, nextDoses, totals, pediatric, disabled, onDrug, onOtherDrug }: DrugGroupProps) {
   // A drug past its limit asks for a second tap: the first arms it, the second records.
   const [armed, setArmed] = useState<string | null>(null);
   useEffect(() => {
@@ -51,18 +51,18 @@ export function DrugGroup({ protocol, sheet, nextDoses, totals, pediatric, disab
   return (
     <PadGroup title="Drugs" id="drugs" accent="seaglass.400">
       {pediatric ? (
-        <Box bg="signal.50" borderWidth="2px" borderColor="signal.500" borderRadius="l2" px="3" py="2" mb="2" data-testid="pediatric-caution">
-          <Text textStyle="md" fontWeight="bold">
-            Double-check every weight-based dose with a second person.
-          </Text>
-          <Text textStyle="sm">
+        <Box bg="signal.50" borderWidth="2px" borderColor="signal.500" borderRadius="l2" px="2" py="0.5" mb="1.5" data-testid="pediatric-caution">
+          <Text textStyle="xs" lineHeight="1.3">
+            <Text as="span" fontWeight="bold">
+              Double-check every weight-based dose with a second person.
+            </Text>{' '}
             {sheet?.status === 'ready'
-              ? `Doses for ${formatDose(sheet.weightKg ?? 0)} kg, ${sheet.edition}.`
+              ? `Doses for ${formatDose(sheet.weightKg ?? 0)} kg (sheet in Code details).`
               : 'Weight needed: no dose is suggested until the weight is set.'}
           </Text>
         </Box>
       ) : null}
-      <SimpleGrid columns={{ base: 2, sm: 3, lg: 4 }} gap="2">
+      <SimpleGrid columns={{ base: 2, sm: 3, md: 6 }} gap="1.5">
         {protocol.drugs.map((drug) => {
           const next = nextDoses[drug.key];
           const dose = next?.line ?? null;
@@ -73,17 +73,20 @@ export function DrugGroup({ protocol, sheet, nextDoses, totals, pediatric, disab
           const isArmed = armed === drug.key;
           const detail = limit ? (
             <>
-              <Box textStyle="md" data-testid={`drug-limit-${drug.key}`}>
+              <Box textStyle="sm" data-testid={`drug-limit-${drug.key}`}>
                 {limit.message}
               </Box>
               <Box>{isArmed ? `Tap again to record ${dose?.display ?? ''} anyway` : 'Tap twice to record another'}</Box>
             </>
           ) : dose ? (
             <>
-              <Box textStyle="md">{`${dose.display} ${route}`}</Box>
-              {dosing && dosing.maxDoses !== null ? <Box fontWeight="normal">{`dose ${dose.doseNumber} of ${dosing.maxDoses}`}</Box> : null}
+              <Box textStyle="sm">{`${dose.display} ${route}`}</Box>
               {pediatric || dose.basis !== 'fixed' ? <Box fontWeight="normal">{dose.formula}</Box> : null}
-              {dose.volumeText ? <Box fontWeight="normal">{dose.volumeText}</Box> : null}
+              {dose.volumeText || (dosing && dosing.maxDoses !== null) ? (
+                <Box fontWeight="normal">
+                  {[dose.volumeText, dosing && dosing.maxDoses !== null ? `dose ${dose.doseNumber} of ${dosing.maxDoses}` : null].filter(Boolean).join(' · ')}
+                </Box>
+              ) : null}
               {dose.capNote ? <Box>{dose.capNote}</Box> : null}
               {given ? <Box fontWeight="normal">{`${given.doseCount} given · ${drugTotalText(given)}`}</Box> : null}
             </>
@@ -94,6 +97,8 @@ export function DrugGroup({ protocol, sheet, nextDoses, totals, pediatric, disab
             <PadButton
               key={drug.key}
               label={drug.label}
+              height="compact"
+              labelSize="sm"
               colorPalette={limit ? 'signal' : 'brand'}
               emphasis={isArmed}
               disabled={disabled}
@@ -120,6 +125,8 @@ export function DrugGroup({ protocol, sheet, nextDoses, totals, pediatric, disab
         })}
         <PadButton
           label="Other drug"
+          height="compact"
+          labelSize="sm"
           detail="dose now, name at review"
           disabled={disabled}
           data-testid="drug-other"
@@ -129,4 +136,4 @@ export function DrugGroup({ protocol, sheet, nextDoses, totals, pediatric, disab
       </SimpleGrid>
     </PadGroup>
   );
-}
+});

@@ -1,22 +1,28 @@
-import { SimpleGrid, Stack, Text } from '@chakra-ui/react';
+import { SimpleGrid, Stack } from '@chakra-ui/react';
+import { EditorPanel } from './editor-panel';
 import { END_OUTCOME_CHOICES } from '@steadyhand/shared';
-import { useState } from 'react';
+import { useState, memo } from 'react';
 import { AIRWAY_WORDS, OUTCOME_WORDS } from '../../../lib/live/entry-words';
 import { PadButton } from './pad-button';
 import { PadSwitch } from './pad-switch';
 import { PadGroup } from './pad-group';
 import type { Tap } from './types';
 
-export function AirwayGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
+/** Short words for narrow buttons; the full words are their accessible names. */
+const AIRWAY_SHORT = { 'bag-mask': 'Bag-mask', supraglottic: 'Supraglottic', endotracheal: 'ET tube' } as const;
+
+export const AirwayGroup = memo(function AirwayGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
   const [capno, setCapno] = useState(false);
   return (
     <PadGroup title="Airway" id="airway" accent="ink.400">
-      <Stack gap="2">
+      <SimpleGrid columns={2} gap="1.5">
         {(['bag-mask', 'supraglottic', 'endotracheal'] as const).map((device) => (
           <PadButton
             key={device}
-            label={AIRWAY_WORDS[device]}
-            detail={device === 'endotracheal' && capno ? '+ waveform capnography' : undefined}
+            label={AIRWAY_SHORT[device]}
+            labelSize="sm"
+            aria-label={`Airway: ${AIRWAY_WORDS[device]}${device === 'endotracheal' && capno ? ', confirmed by waveform capnography' : ''}`}
+            detail={device === 'endotracheal' && capno ? '+ capnography' : undefined}
             height="compact"
             disabled={disabled}
             data-testid={`airway-${device}`}
@@ -34,28 +40,30 @@ export function AirwayGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean
           on={capno}
           onToggle={setCapno}
           label="Tube confirmed by waveform capnography"
-          onText="Capnography confirmed"
-          offText="Confirmed by capnography?"
+          onText="Capno: YES"
+          offText="Capno?"
           disabled={disabled}
           data-testid="airway-capno"
         />
-      </Stack>
+      </SimpleGrid>
     </PadGroup>
   );
-}
+});
 
-export function AccessGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
+export const AccessGroup = memo(function AccessGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
   return (
     <PadGroup title="Access" id="access" accent="ink.400">
-      <SimpleGrid columns={1} gap="2">
+      <SimpleGrid columns={1} gap="1.5">
         <PadButton
           label="IV access"
+          height="compact"
           disabled={disabled}
           data-testid="access-iv"
           onClick={() => onTap({ kind: 'access', route: 'iv' })}
         />
         <PadButton
           label="IO access"
+          height="compact"
           disabled={disabled}
           data-testid="access-io"
           onClick={() => onTap({ kind: 'access', route: 'io' })}
@@ -63,9 +71,9 @@ export function AccessGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean
       </SimpleGrid>
     </PadGroup>
   );
-}
+});
 
-export function Etco2Group({
+export const Etco2Group = memo(function Etco2Group({
   onTap,
   onOther,
   disabled,
@@ -75,8 +83,8 @@ export function Etco2Group({
   disabled: boolean;
 }) {
   return (
-    <PadGroup title="ETCO2 (mmHg)" id="etco2" accent="ink.400">
-      <SimpleGrid columns={2} gap="2">
+    <PadGroup title="ETCO2 (mmHg)" id="etco2" accent="ink.400" aria-describedby="etco2-caution">
+      <SimpleGrid columns={3} gap="1.5">
         {[10, 20, 30, 40].map((v) => (
           <PadButton
             key={v}
@@ -88,24 +96,21 @@ export function Etco2Group({
             onClick={() => onTap({ kind: 'etco2', mmHg: v })}
           />
         ))}
+        <PadButton
+          label="Other"
+          height="compact"
+          gridColumn="span 2"
+          disabled={disabled}
+          data-testid="etco2-other"
+          aria-label="ETCO2, other value"
+          onClick={onOther}
+        />
       </SimpleGrid>
-      <PadButton
-        mt="2"
-        label="Other value"
-        height="compact"
-        disabled={disabled}
-        data-testid="etco2-other"
-        aria-label="ETCO2, other value"
-        onClick={onOther}
-      />
-      <Text textStyle="xs" color="ink.700" mt="2">
-        Information only, never a reason on its own to stop.
-      </Text>
     </PadGroup>
   );
-}
+});
 
-export function EventGroup({
+export const EventGroup = memo(function EventGroup({
   onTap,
   onNote,
   disabled,
@@ -117,80 +122,69 @@ export function EventGroup({
   const [ending, setEnding] = useState(false);
   return (
     <PadGroup title="Events" id="events" accent="seaglass.700">
-      <Stack gap="2">
-        <SimpleGrid columns={2} gap="2">
-          <PadButton
-            label="ROSC"
-            colorPalette="brand"
-            disabled={disabled}
-            data-testid="event-rosc"
-            aria-label="ROSC"
-            onClick={() => onTap({ kind: 'rosc' })}
-          />
-          <PadButton
-            label="Re-arrest"
-            disabled={disabled}
-            data-testid="event-rearrest"
-            onClick={() => onTap({ kind: 'rearrest' })}
-          />
-        </SimpleGrid>
+      <SimpleGrid columns={2} gap="1.5">
+        <PadButton
+          label="ROSC"
+          height="compact"
+          colorPalette="brand"
+          disabled={disabled}
+          data-testid="event-rosc"
+          aria-label="ROSC"
+          onClick={() => onTap({ kind: 'rosc' })}
+        />
+        <PadButton
+          label="Re-arrest"
+          height="compact"
+          disabled={disabled}
+          data-testid="event-rearrest"
+          onClick={() => onTap({ kind: 'rearrest' })}
+        />
         <PadButton
           label="Note"
-          detail="quick notes or text"
+          height="compact"
           disabled={disabled}
           data-testid="event-note"
+          aria-label="Note: quick notes or text"
           onClick={onNote}
         />
-        {ending ? (
-          <Stack
-            gap="2"
-            borderWidth="3px"
-            borderColor="ink.900"
-            borderRadius="l3"
-            p="2"
-            role="group"
-            aria-labelledby="end-outcome-label"
-          >
-            <Text id="end-outcome-label" textStyle="lg" fontWeight="bold">
-              End the code: outcome?
-            </Text>
-            <SimpleGrid columns={2} gap="2">
-              {END_OUTCOME_CHOICES.map((o) => (
-                <PadButton
-                  key={o}
-                  label={OUTCOME_WORDS[o]}
-                  height="compact"
-                  colorPalette="ink"
-                  emphasis
-                  disabled={disabled}
-                  data-testid={`end-${o}`}
-                  aria-label={`End the code: ${OUTCOME_WORDS[o]}`}
-                  onClick={() => {
-                    onTap({ kind: 'end', outcome: o });
-                    setEnding(false);
-                  }}
-                />
-              ))}
-            </SimpleGrid>
+        <PadButton
+          label="End code…"
+          height="compact"
+          disabled={disabled}
+          data-testid="event-end"
+          aria-label="End code, then choose the outcome"
+          aria-expanded={ending}
+          onClick={() => setEnding(true)}
+        />
+      </SimpleGrid>
+      {ending ? (
+        // A panel over the pad, so choosing the outcome never pushes the buttons around.
+        <EditorPanel title="End the code: outcome?" onCancel={() => setEnding(false)} testId="end-outcome">
+          <Stack gap="2" role="group" aria-label="Outcome">
+            {END_OUTCOME_CHOICES.map((o) => (
+              <PadButton
+                key={o}
+                label={OUTCOME_WORDS[o]}
+                colorPalette="ink"
+                emphasis
+                disabled={disabled}
+                data-testid={`end-${o}`}
+                aria-label={`End the code: ${OUTCOME_WORDS[o]}`}
+                onClick={() => {
+                  onTap({ kind: 'end', outcome: o });
+                  setEnding(false);
+                }}
+              />
+            ))}
             <PadButton
               label="Keep going"
-              height="compact"
               data-testid="end-cancel"
               aria-label="Do not end the code"
               onClick={() => setEnding(false)}
             />
           </Stack>
-        ) : (
-          <PadButton
-            label="End code…"
-            detail="then choose the outcome"
-            disabled={disabled}
-            data-testid="event-end"
-            aria-label="End code"
-            onClick={() => setEnding(true)}
-          />
-        )}
-      </Stack>
+        </EditorPanel>
+      ) : null}
     </PadGroup>
   );
-}
+});

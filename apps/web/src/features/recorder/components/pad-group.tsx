@@ -16,20 +16,22 @@ export function PadGroup({
       data-testid={`group-${id}`}
       bg="white"
       borderRadius="l3"
-      borderTopWidth="6px"
+      borderTopWidth="5px"
       borderTopColor={accent}
       boxShadow="xs"
-      p="3"
+      p="2"
+      minW="0"
       {...rest}
     >
       <Heading
         as="h2"
         id={`${id}-title`}
-        textStyle="md"
+        textStyle="xs"
+        fontWeight="black"
         textTransform="uppercase"
         letterSpacing="wider"
         color="ink.700"
-        mb="2"
+        mb="1.5"
       >
         {title}
       </Heading>

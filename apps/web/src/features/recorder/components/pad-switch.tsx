@@ -47,14 +47,16 @@ export function PadSwitch({
     <Button
       role="switch"
       aria-checked={on}
-      aria-label={label}
+      aria-description={label}
       data-testid={testId}
-      minH="16"
+      minH="12"
       h="auto"
+      data-pad-action=""
+      _focusVisible={{ outline: '3px solid', outlineColor: 'ink.950', outlineOffset: '2px' }}
       w="full"
       whiteSpace="normal"
       borderStyle={on ? 'solid' : 'dashed'}
-      textStyle="lg"
+      textStyle="md"
       disabled={disabled}
       onClick={() => onToggle(!on)}
       {...look}

@@ -1,29 +1,24 @@
-import { Alert, Box, Button, Flex, Grid, Stack, Text } from '@chakra-ui/react';
+import { Alert, Box, Button, Flex, Grid, Heading, Stack, Text } from '@chakra-ui/react';
 import {
   flaggedDoseText,
   formatElapsedMs,
   REMINDER_CAUTION as CORE_REMINDER_CAUTION,
   stateAt,
-  TAPS_NOT_SENSOR,
   type Code,
-  type DosingSheet,
   type EffectiveEntry,
   type NewEntry,
   type ProtocolSettings,
 } from '@steadyhand/shared';
 import dayjs from 'dayjs';
-import { useCallback, useMemo, useState } from 'react';
+import { lazy, Suspense, useCallback, useMemo, useState } from 'react';
 import { Link as RouterLink } from 'react-router';
 import { paths } from '../../../config/paths';
 import type { EntryFields } from '../../../lib/live/entry-build';
 import type { LiveCode } from '../../../lib/live/use-live-code';
-import { describeEntry, OUTCOME_WORDS } from '../../../lib/live/entry-words';
+import { describeEntry, formatDose, OUTCOME_WORDS } from '../../../lib/live/entry-words';
 import { lastMoment, useCodeTimeline } from '../../../lib/live/use-code-timeline';
-import { ArrestTime } from './arrest-time';
-import { CodeDetails } from './code-details';
 import { CprGroup } from './cpr-group';
 import { DrugGroup, type DrugTapPlan } from './drug-group';
-import { DoseEditor, NoteEditor, NumberEditor } from './editor-panel';
 import { AccessGroup, AirwayGroup, Etco2Group, EventGroup } from './more-groups';
 import { RecentEntries } from './recent-entries';
 import { RhythmGroup } from './rhythm-group';
@@ -31,6 +26,12 @@ import { Shape } from '../../../components/ui/shapes';
 import { ShockGroup } from './shock-group';
 import { StatusStrip } from './status-strip';
 import { UNDO_WINDOW_MS, UndoBar, type LastTap } from './undo-bar';
+
+// Loaded on first opening, so the pad's first load stays small.
+const CodeDetailsSheet = lazy(() => import('./code-details-sheet'));
+const DoseEditor = lazy(() => import('./editors').then((m) => ({ default: m.DoseEditor })));
+const NumberEditor = lazy(() => import('./editors').then((m) => ({ default: m.NumberEditor })));
+const NoteEditor = lazy(() => import('./editors').then((m) => ({ default: m.NoteEditor })));
 
 export const REMINDER_CAUTION = CORE_REMINDER_CAUTION;
 export const UNDO_REASON = 'undone on the pad within 5 s';
@@ -45,23 +46,6 @@ type Editor =
   | { kind: 'energy' }
   | { kind: 'etco2' }
   | { kind: 'note' };
-
-/** The dosing sheet's own cautions, folded away but one tap from every dose. */
-function DosingCautions({ sheet }: { sheet: DosingSheet }) {
-  const perDrug = sheet.drugs.flatMap((d) => [...d.cautions, ...d.notes].map((text) => `${d.label}: ${text}`));
-  return (
-    <Box as="details" mt="1" data-testid="dosing-cautions">
-      <Box as="summary" cursor="pointer" fontWeight="bold" textStyle="sm" minH="12" display="flex" alignItems="center">
-        Dosing cautions and notes ({sheet.cautions.length + perDrug.length})
-      </Box>
-      <Stack as="ul" gap="1" pl="4" textStyle="xs">
-        {[...sheet.cautions, ...perDrug].map((c) => (
-          <li key={c}>{c}</li>
-        ))}
-      </Stack>
-    </Box>
-  );
-}
 
 interface RecorderPadProps {
   live: LiveCode;
@@ -81,7 +65,8 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
   const [editor, setEditor] = useState<Editor | null>(null);
   const [tapError, setTapError] = useState<string | null>(null);
   const [synchronized, setSynchronized] = useState(false);
-  const { record, entries, pendingIds, clock } = live;
+  const [detailsOpen, setDetailsOpen] = useState(false);
+  const { record, entries, clock } = live;
 
   // The log folded once per change; the strip reads its moment from it every second.
   const timeline = useCodeTimeline(code, protocol, entries);
@@ -124,72 +109,54 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
   const voidEntry = (entry: EffectiveEntry, reason: string) =>
     tap({ kind: 'void', target: entry.id, reason });
 
-  const onDrug = (plan: DrugTapPlan) => {
-    if (!plan.dose) {
-      setEditor({ kind: 'new-dose', plan });
-      return;
-    }
-    tap({
-      kind: 'drug',
-      drug: plan.drug.key,
-      dose: plan.dose.amount,
-      unit: plan.dose.unit,
-      route: plan.drug.route,
-    });
-  };
+  // Stable callbacks: the button groups are memoised, so a tap re-renders the list, not every button.
+  const onDrug = useCallback(
+    (plan: DrugTapPlan) => {
+      if (!plan.dose) {
+        setEditor({ kind: 'new-dose', plan });
+        return;
+      }
+      tap({
+        kind: 'drug',
+        drug: plan.drug.key,
+        dose: plan.dose.amount,
+        unit: plan.dose.unit,
+        route: plan.drug.route,
+      });
+    },
+    [tap],
+  );
+  const onOtherEnergy = useCallback(() => setEditor({ kind: 'energy' }), []);
+  const onOtherDrug = useCallback(() => setEditor({ kind: 'other-drug' }), []);
+  const onNote = useCallback(() => setEditor({ kind: 'note' }), []);
+  const onOtherEtco2 = useCallback(() => setEditor({ kind: 'etco2' }), []);
+
 
   const nextPedStep = synchronized ? snapshot.nextEnergy.cardioversion : snapshot.nextEnergy.defibrillation;
   const noWrite = !canWrite;
   const failedById = new Map(entries.map((e) => [e.id, e]));
 
-  return (
-    <Stack gap="3" pb={{ base: '24', lg: '4' }} data-testid="recorder-pad" data-code-id={code.id}>
-      <Flex align="baseline" justify="space-between" wrap="wrap" gap="2">
-        <Text as="h1" textStyle="xl" fontWeight="bold" data-testid="record-heading">
-          {pediatric ? 'Pediatric' : 'Adult'} code · {code.location ?? 'location not set'}
-          {code.weightKg !== null ? ` · ${code.weightKg} kg${code.weightSource === 'estimated-age' ? ' (estimate)' : ''}` : ''}
-        </Text>
-        <Flex align="baseline" gap="3" wrap="wrap">
-          <ArrestTime code={code} canWrite={canWrite} onSaved={live.setCode} />
-          <Text textStyle="sm" color="ink.700">
-            Clock offset {Math.round(clock.offsetMs)} ms
-            {clock.uncertaintyMs !== null
-              ? ` ± ${Math.round(clock.uncertaintyMs)} ms`
-              : ' (not yet measured)'}
-          </Text>
-          <Button asChild size="sm" variant="outline" data-testid="pad-wall-link">
-            <RouterLink to={paths.codes.wall.getHref(code.id)}>Wall</RouterLink>
-          </Button>
-        </Flex>
-      </Flex>
-
-      <StatusStrip timeline={timeline} sync={live.sync} correctedNow={clock.correctedNow} />
-
+  const alerts = (
+    <>
       {snapshot.categoryChange ? (
-        <Box bg="signal.100" borderWidth="2px" borderColor="signal.600" borderRadius="l3" px="3" py="2" data-testid="category-changed">
-          <Text textStyle="md" fontWeight="bold">
+        <Box bg="signal.100" borderWidth="2px" borderColor="signal.600" borderRadius="l3" px="3" py="1" data-testid="category-changed">
+          <Text textStyle="sm" fontWeight="bold">
             Switched to {snapshot.categoryChange.to === 'pediatric' ? 'a pediatric' : 'an adult'} code at{' '}
             {dayjs(snapshot.categoryChange.atMs).format('HH:mm:ss')}: doses and energies recalculated
-            {code.weightKg !== null ? ` for ${code.weightKg} kg` : ''}. Doses given before are checked against the new sheet below.
+            {code.weightKg !== null ? ` for ${code.weightKg} kg` : ''}. Doses given before are checked against the new sheet.
           </Text>
         </Box>
       ) : null}
 
       {live.sync.alarm ? (
-        <Alert.Root
-          status="error"
-          variant="solid"
-          role="alert"
-          borderRadius="l3"
-          data-testid="sync-alarm"
-        >
+        <Alert.Root status="error" variant="solid" role="alert" borderRadius="l3" py="2" data-testid="sync-alarm">
           <Shape kind="octagon" size="2em" />
           <Alert.Content>
-            <Alert.Title textStyle="xl" fontWeight="bold">
+            <Alert.Title textStyle="lg" fontWeight="bold">
               {live.sync.waiting} {live.sync.waiting === 1 ? 'entry has' : 'entries have'} waited
               over a minute for the server
             </Alert.Title>
-            <Alert.Description textStyle="md">
+            <Alert.Description textStyle="sm">
               Keep recording: every tap is kept on this tablet. Check the Wi-Fi; do not sign out or
               clear this browser.
             </Alert.Description>
@@ -198,10 +165,10 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
       ) : null}
 
       {live.failed.length > 0 ? (
-        <Alert.Root status="error" role="alert" borderRadius="l3" data-testid="sync-failed">
+        <Alert.Root status="error" role="alert" borderRadius="l3" py="2" data-testid="sync-failed">
           <Shape kind="cross" size="2em" />
           <Alert.Content>
-            <Alert.Title textStyle="lg" fontWeight="bold">
+            <Alert.Title textStyle="md" fontWeight="bold">
               The server refused{' '}
               {live.failed.length === 1 ? 'one entry' : `${live.failed.length} entries`}: not in the
               record yet
@@ -209,16 +176,11 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
             <Stack gap="1" mt="1">
               {live.failed.map((f) => (
                 <Flex key={f.id} align="center" gap="2" wrap="wrap">
-                  <Text textStyle="md" fontWeight="bold">
+                  <Text textStyle="sm" fontWeight="bold">
                     {describeEntry(f.entry, protocol, failedById)}
                   </Text>
-                  <Text textStyle="sm">({f.error})</Text>
-                  <Button
-                    size="sm"
-                    variant="outline"
-                    bg="white"
-                    onClick={() => void live.retryFailed(f.id)}
-                  >
+                  <Text textStyle="xs">({f.error})</Text>
+                  <Button size="sm" minH="12" variant="outline" bg="white" onClick={() => void live.retryFailed(f.id)}>
                     Send again
                   </Button>
                 </Flex>
@@ -228,43 +190,36 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
         </Alert.Root>
       ) : null}
 
-      {tapError ? (
-        <Alert.Root status="error" role="alert" borderRadius="l3">
-          <Alert.Indicator />
+      {tapError || live.unkept.length > 0 ? (
+        <Alert.Root status="error" variant="solid" role="alert" borderRadius="l3" py="2" data-testid="tap-not-kept">
+          <Shape kind="cross" size="2em" />
           <Alert.Content>
-            <Alert.Title fontWeight="bold">That tap was NOT saved on this tablet</Alert.Title>
+            <Alert.Title fontWeight="bold">
+              {live.unkept.length > 1 ? `${live.unkept.length} taps were` : 'That tap was'} NOT saved on this tablet
+            </Alert.Title>
             <Alert.Description>
-              {tapError} Write it on paper and tell the team leader.
+              {live.unkept.map((u) => `${describeEntry(u.entry, protocol)} (${u.error})`).join('; ') || tapError} Write it on
+              paper and tell the team leader.
             </Alert.Description>
           </Alert.Content>
         </Alert.Root>
       ) : null}
 
       {snapshot.status === 'ended' ? (
-        <Box bg="ink.100" borderRadius="l3" px="3" py="2" data-testid="ended-banner">
-          <Text textStyle="lg" fontWeight="bold">
+        <Flex bg="ink.100" borderRadius="l3" px="3" py="1" gap="3" align="center" wrap="wrap" data-testid="ended-banner">
+          <Text textStyle="md" fontWeight="bold" flex="1" minW="12rem">
             Code ended at {formatElapsedMs((snapshot.endedAtMs ?? arrestAtMs) - arrestAtMs)}
             {snapshot.outcome ? `: ${OUTCOME_WORDS[snapshot.outcome]}` : ''}. Late entries can still
             be added.
           </Text>
-          <Button asChild colorPalette="brand" size="lg" mt="2" data-testid="ended-review">
-            <RouterLink to={paths.codes.review.getHref(code.id)}>
-              Review and sign the record
-            </RouterLink>
+          <Button asChild colorPalette="brand" minH="12" data-testid="ended-review">
+            <RouterLink to={paths.codes.review.getHref(code.id)}>Review and sign the record</RouterLink>
           </Button>
-        </Box>
+        </Flex>
       ) : null}
 
       {noWrite ? (
-        <Box
-          bg="seaglass.50"
-          borderWidth="2px"
-          borderColor="seaglass.600"
-          borderRadius="l3"
-          px="3"
-          py="2"
-          data-testid="read-only-notice"
-        >
+        <Box bg="seaglass.50" borderWidth="2px" borderColor="seaglass.600" borderRadius="l3" px="3" py="2" data-testid="read-only-notice">
           <Text textStyle="lg" fontWeight="bold">
             Watching this code
           </Text>
@@ -274,30 +229,91 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
           </Text>
         </Box>
       ) : null}
+    </>
+  );
+
+  const weightWords =
+    code.weightKg !== null
+      ? `${formatDose(code.weightKg)} kg${code.weightSource === 'estimated-age' ? ' (estimate)' : ''}`
+      : 'weight not set';
+
+  return (
+    <Flex
+      direction="column"
+      gap="2"
+      h={{ base: 'auto', md: 'full' }}
+      pb={{ base: '28', md: '0' }}
+      data-testid="recorder-pad"
+      data-code-id={code.id}
+    >
+      {alerts}
 
       <Grid
-        templateColumns={{
-          base: 'minmax(0, 1fr)',
-          lg: noWrite ? 'minmax(0, 1fr)' : 'minmax(0, 1fr) 23rem',
+        flex="1"
+        minH="0"
+        gap="2"
+        templateColumns={{ base: 'minmax(0, 1fr)', lg: noWrite ? 'minmax(0, 1fr)' : 'minmax(0, 1fr) 19rem' }}
+        templateRows={{
+          base: 'auto',
+          md: noWrite ? 'auto auto minmax(0, 1fr)' : 'auto auto auto minmax(0, 1fr)',
+          lg: 'auto auto minmax(0, 1fr)',
         }}
-        gap="3"
-        alignItems="start"
+        // Landscape: the bedside jobs on the left, what to read (code, clocks, entries) on the right.
+        templateAreas={{
+          base: noWrite ? '"head" "status" "side"' : '"head" "status" "main" "side"',
+          lg: noWrite ? '"head" "status" "side"' : '"main head" "main status" "main side"',
+        }}
       >
-        {noWrite ? null : (
-          <Stack gap="3" minW="0">
-            <Grid
-              templateColumns={{
-                base: 'minmax(0, 1fr)',
-                sm: 'repeat(2, minmax(0, 1fr))',
-                lg: 'repeat(3, minmax(0, 1fr))',
-              }}
-              gap="3"
+        <Flex gridArea="head" align="center" justify="space-between" wrap="wrap" gap="2" minW="0">
+          <Flex align="center" gap="2" wrap="wrap" minW="0">
+            <Heading as="h1" textStyle="lg" fontWeight="bold" data-testid="record-heading">
+              {pediatric ? 'Pediatric' : 'Adult'} code
+            </Heading>
+            <Box
+              as="span"
+              px="2"
+              py="0.5"
+              borderRadius="full"
+              borderWidth="2px"
+              borderColor={code.weightKg === null && pediatric ? 'alarm.600' : 'ink.700'}
+              fontWeight="bold"
+              textStyle="sm"
+              data-testid="header-weight"
             >
+              {weightWords}
+            </Box>
+            <Text as="span" textStyle="sm" color="ink.700" truncate maxW="16rem">
+              {code.location ?? 'place not set'}
+            </Text>
+          </Flex>
+          <Flex align="center" gap="2">
+            <Button
+              minH="12"
+              variant="outline"
+              bg="white"
+              data-testid="pad-details"
+              aria-expanded={detailsOpen}
+              onClick={() => setDetailsOpen(true)}
+            >
+              Code details
+            </Button>
+            <Button asChild minH="12" variant="outline" bg="white" data-testid="pad-wall-link">
+              <RouterLink to={paths.codes.wall.getHref(code.id)}>Wall</RouterLink>
+            </Button>
+          </Flex>
+        </Flex>
+        <Box gridArea="status" minW="0">
+          <StatusStrip timeline={timeline} sync={live.sync} correctedNow={clock.correctedNow} />
+        </Box>
+
+        {noWrite ? null : (
+          <Flex gridArea="main" direction="column" gap="2" minW="0" data-testid="pad-actions">
+            <Grid templateColumns={{ base: 'minmax(0, 1fr)', sm: 'repeat(2, minmax(0, 1fr))', md: 'repeat(3, minmax(0, 1fr))' }} gap="2">
               <CprGroup running={snapshot.compressions.running} onTap={tap} disabled={noWrite} />
               <RhythmGroup onTap={tap} disabled={noWrite} />
               <ShockGroup
                 onTap={tap}
-                onOtherEnergy={() => setEditor({ kind: 'energy' })}
+                onOtherEnergy={onOtherEnergy}
                 synchronized={synchronized}
                 onSynchronized={setSynchronized}
                 disabled={noWrite}
@@ -316,99 +332,93 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
               pediatric={pediatric}
               disabled={noWrite}
               onDrug={onDrug}
-              onOtherDrug={() => setEditor({ kind: 'other-drug' })}
+              onOtherDrug={onOtherDrug}
             />
             <Grid
-              templateColumns={{
-                base: 'minmax(0, 1fr)',
-                sm: 'repeat(2, minmax(0, 1fr))',
-                lg: 'repeat(4, minmax(0, 1fr))',
-              }}
-              gap="3"
+              templateColumns={{ base: 'minmax(0, 1fr)', sm: 'repeat(2, minmax(0, 1fr))', md: '1.1fr 1.2fr 0.7fr 1.2fr' }}
+              gap="2"
             >
-              <EventGroup
-                onTap={tap}
-                onNote={() => setEditor({ kind: 'note' })}
-                disabled={noWrite}
-              />
+              <EventGroup onTap={tap} onNote={onNote} disabled={noWrite} />
               <AirwayGroup onTap={tap} disabled={noWrite} />
               <AccessGroup onTap={tap} disabled={noWrite} />
-              <Etco2Group
-                onTap={tap}
-                onOther={() => setEditor({ kind: 'etco2' })}
-                disabled={noWrite}
-              />
+              <Etco2Group onTap={tap} onOther={onOtherEtco2} disabled={noWrite} />
             </Grid>
-            <CodeDetails code={code} canWrite={canWrite} onSaved={live.setCode} />
-          </Stack>
+          </Flex>
         )}
 
-        <Stack
-          gap="3"
-          minW="0"
-          position={{ base: 'static', lg: 'sticky' }}
-          top={{ lg: '7rem' }}
-          maxH={{ lg: 'calc(100dvh - 7.5rem)' }}
-          overflowY={{ lg: 'auto' }}
-        >
+        <Flex gridArea="side" direction="column" gap="2" minW="0" minH="0">
           {noWrite ? null : (
-            // On a phone or a portrait tablet the list sits below the buttons, so Undo floats at the bottom edge.
+            // On a phone the list is far below the buttons: Undo floats at the bottom edge there.
             <Box
-              position={{ base: 'fixed', lg: 'static' }}
-              bottom={{ base: '0', lg: 'auto' }}
-              left={{ base: '0', lg: 'auto' }}
-              right={{ base: '0', lg: 'auto' }}
-              zIndex={{ base: 'docked', lg: 'auto' }}
-              p={{ base: '2', lg: '0' }}
+              position={{ base: 'fixed', md: 'static' }}
+              bottom={{ base: '0', md: 'auto' }}
+              left={{ base: '0', md: 'auto' }}
+              right={{ base: '0', md: 'auto' }}
+              zIndex={{ base: 'docked', md: 'auto' }}
+              p={{ base: '2', md: '0' }}
+              flexShrink={0}
             >
-              <UndoBar
-                tap={lastTap}
-                protocol={protocol}
-                onUndo={undo}
-                onChangeDose={
-                  lastTap?.entry.kind === 'drug'
-                    ? () =>
-                        lastTap.entry.kind === 'drug' &&
-                        setEditor({ kind: 'amend-dose', entry: lastTap.entry })
-                    : undefined
-                }
-              />
+            <UndoBar
+              tap={lastTap}
+              protocol={protocol}
+              onUndo={undo}
+              onChangeDose={
+                lastTap?.entry.kind === 'drug'
+                  ? () => lastTap.entry.kind === 'drug' && setEditor({ kind: 'amend-dose', entry: lastTap.entry })
+                  : undefined
+              }
+            />
             </Box>
           )}
-          <RecentEntries
-            entries={effective}
-            all={entries}
-            pendingIds={pendingIds}
-            arrestAtMs={arrestAtMs}
-            protocol={protocol}
-            count={noWrite ? 20 : 8}
-            onVoid={noWrite ? undefined : voidEntry}
-          />
           {snapshot.flaggedDoses.length > 0 ? (
-            <Box bg="signal.50" borderWidth="2px" borderColor="signal.500" borderRadius="l2" px="3" py="2" data-testid="flagged-doses">
-              <Text textStyle="sm" fontWeight="black">
+            <Box bg="signal.50" borderWidth="2px" borderColor="signal.500" borderRadius="l2" px="2" py="1" data-testid="flagged-doses">
+              <Text textStyle="xs" fontWeight="black">
                 DOSES TO CHECK
               </Text>
               {snapshot.flaggedDoses.map((d) => (
-                <Text key={d.id} textStyle="sm" fontWeight="bold">
+                <Text key={d.id} textStyle="xs" fontWeight="bold">
                   {flaggedDoseText(d)}
                 </Text>
               ))}
             </Box>
           ) : null}
-          <Box borderTopWidth="1px" borderColor="ink.200" pt="2" data-testid="reminder-caution">
-            <Text textStyle="sm" fontWeight="bold">
+          <RecentEntries
+            entries={effective}
+            all={entries}
+            stageOf={live.stageOf}
+            unkept={live.unkept}
+            arrestAtMs={arrestAtMs}
+            protocol={protocol}
+            count={noWrite ? 20 : 12}
+            onVoid={noWrite ? undefined : voidEntry}
+          />
+          <Box borderTopWidth="1px" borderColor="ink.200" pt="1" flexShrink={0} data-testid="reminder-caution">
+            <Text textStyle="xs" fontWeight="bold" lineHeight="1.3">
               {REMINDER_CAUTION}
             </Text>
-            <Text textStyle="xs" color="ink.700">
-              Protocol version {code.protocolVersion ?? 1}: {protocol.edition}. Times shown are when each event happened, as
-              tapped. {TAPS_NOT_SENSOR}
+            <Text textStyle="xs" color="ink.700" lineHeight="1.3">
+              <span id="shock-caution">Shocks are recorded as given; the pad does not set the defibrillator.</span>{' '}
+              <span id="etco2-caution">ETCO2 is information only, never a reason on its own to stop.</span>
             </Text>
-            {sheet ? <DosingCautions sheet={sheet} /> : null}
           </Box>
-        </Stack>
+        </Flex>
       </Grid>
 
+      {detailsOpen ? (
+        <Suspense fallback={null}>
+          <CodeDetailsSheet
+            code={code}
+            canWrite={canWrite}
+            onSaved={live.setCode}
+            onClose={() => setDetailsOpen(false)}
+            clock={clock}
+            protocol={protocol}
+            sheet={sheet}
+          />
+        </Suspense>
+      ) : null}
+
+      <Suspense fallback={null}>
       {editor?.kind === 'amend-dose' ? (
         <DoseEditor
           title={`Change ${describeEntry(editor.entry, protocol)}`}
@@ -512,6 +522,7 @@ export function RecorderPad({ live, code, protocol, canWrite, readOnlyReason }: 
           }}
         />
       ) : null}
-    </Stack>
+      </Suspense>
+    </Flex>
   );
 }

@@ -1,6 +1,6 @@
 import { SimpleGrid, Stack } from '@chakra-ui/react';
 import { RHYTHMS, SHOCKABLE_RHYTHMS } from '@steadyhand/shared';
-import { useState } from 'react';
+import { useState, memo } from 'react';
 import { RHYTHM_WORDS } from '../../../lib/live/entry-words';
 import { PadButton } from './pad-button';
 import { PadSwitch } from './pad-switch';
@@ -8,11 +8,11 @@ import { PadGroup } from './pad-group';
 import type { Tap } from './types';
 
 /** Set the pulse first if there is one (it starts at "no pulse"), then tap what the monitor shows. */
-export function RhythmGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
+export const RhythmGroup = memo(function RhythmGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean }) {
   const [pulse, setPulse] = useState(false);
   return (
     <PadGroup title="Rhythm check" id="rhythm" accent="ink.500">
-      <Stack gap="2">
+      <Stack gap="1.5">
         <PadSwitch
           on={pulse}
           onToggle={setPulse}
@@ -22,7 +22,7 @@ export function RhythmGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean
           disabled={disabled}
           data-testid="rhythm-pulse"
         />
-        <SimpleGrid columns={2} gap="2">
+        <SimpleGrid columns={3} gap="1.5">
           {RHYTHMS.map((r) => {
             const shockable = SHOCKABLE_RHYTHMS.includes(r);
             return (
@@ -31,6 +31,7 @@ export function RhythmGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean
                 label={RHYTHM_WORDS[r]}
                 detail={shockable ? 'shockable' : undefined}
                 height="compact"
+                labelSize="sm"
                 disabled={disabled}
                 data-testid={`rhythm-${r}`}
                 aria-label={`Rhythm ${RHYTHM_WORDS[r]}, ${pulse ? 'pulse present' : 'no pulse'}`}
@@ -45,4 +46,4 @@ export function RhythmGroup({ onTap, disabled }: { onTap: Tap; disabled: boolean
       </Stack>
     </PadGroup>
   );
-}
+});

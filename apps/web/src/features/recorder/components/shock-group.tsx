@@ -1,4 +1,5 @@
 import { Box, SimpleGrid, Stack, Text } from '@chakra-ui/react';
+import { memo } from 'react';
 import type { DosingSheet, EnergyStep } from '@steadyhand/shared';
 import { PadButton } from './pad-button';
 import { PadSwitch } from './pad-switch';
@@ -23,7 +24,7 @@ interface ShockGroupProps {
  * Energies to record, never settings for the device. The synchronised switch is a full-width
  * bar that changes shape, words and colour, because mixing the two modes up is dangerous.
  */
-export function ShockGroup({
+export const ShockGroup = memo(function ShockGroup({
   onTap,
   onOtherEnergy,
   synchronized,
@@ -42,8 +43,8 @@ export function ShockGroup({
         : sheet.defibrillation.steps
       : [];
   return (
-    <PadGroup title="Shock" id="shock" accent="signal.500">
-      <Stack gap="2">
+    <PadGroup title="Shock" id="shock" accent="signal.500" aria-describedby="shock-caution">
+      <Stack gap="1.5">
         <PadSwitch
           on={synchronized}
           onToggle={onSynchronized}
@@ -57,7 +58,7 @@ export function ShockGroup({
         />
         {pediatric ? (
           pedSteps.length > 0 ? (
-            <SimpleGrid columns={1} gap="2">
+            <SimpleGrid columns={2} gap="1.5">
               {pedSteps.map((step) => {
                 const isNext = nextStep !== null && step.shockNumber === nextStep.shockNumber;
                 return (
@@ -68,36 +69,58 @@ export function ShockGroup({
                     detail={
                       <>
                         <Box>{`${step.repeats ? `Shock ${step.shockNumber}+` : `Shock ${step.shockNumber}`}${isNext ? ' · next' : ''}${step.joulesHigh !== null ? ` · range ${step.display}` : ''}`}</Box>
-                        <Box fontWeight="normal">
-                          {step.formula}
-                          {step.capNote ? ` (${step.capNote})` : ''}
-                        </Box>
+                        {/* A range's long formula is read out, not printed: the pad keeps to one screen. */}
+                        {step.joulesHigh === null ? (
+                          <Box fontWeight="normal">
+                            {step.formula}
+                            {step.capNote ? ` (${step.capNote})` : ''}
+                          </Box>
+                        ) : null}
                       </>
                     }
                     emphasis={isNext}
+                    height="compact"
                     colorPalette="ink"
                     disabled={disabled}
                     data-testid={`shock-${Math.round(step.joules)}`}
-                    aria-label={`${synchronized ? 'Synchronised shock' : 'Shock'} ${Math.round(step.joules)} joules`}
+                    aria-label={`${synchronized ? 'Synchronised shock' : 'Shock'} ${Math.round(step.joules)} joules. ${step.formula}${step.capNote ? ` (${step.capNote})` : ''}`}
                     onClick={() =>
                       onTap({ kind: 'shock', joules: Math.round(step.joules), synchronized })
                     }
                   />
                 );
               })}
+              <PadButton
+                label="Other energy"
+                height="compact"
+                disabled={disabled}
+                data-testid="shock-other"
+                aria-label="Shock at another energy"
+                onClick={onOtherEnergy}
+              />
             </SimpleGrid>
           ) : (
+            <Stack gap="1.5">
             <Text
               textStyle="md"
               fontWeight="bold"
               color="alarm.700"
               data-testid="shock-weight-needed"
             >
-              Weight needed for pediatric energies. Use Other energy, or set the weight below.
+              Weight needed for pediatric energies: use Other energy, or set the weight in Details.
             </Text>
+              <PadButton
+                label="Other energy"
+                height="compact"
+                disabled={disabled}
+                data-testid="shock-other"
+                aria-label="Shock at another energy"
+                onClick={onOtherEnergy}
+              />
+            </Stack>
           )
         ) : (
-          <SimpleGrid columns={2} gap="2">
+          <SimpleGrid columns={3} gap="1.5">
             {presets.map((j) => (
               <PadButton
                 key={j}
@@ -130,21 +153,7 @@ export function ShockGroup({
             />
           </SimpleGrid>
         )}
-        {pediatric ? (
-          <PadButton
-            label="Other energy"
-            height="compact"
-            disabled={disabled}
-            data-testid="shock-other"
-            aria-label="Shock at another energy"
-            onClick={onOtherEnergy}
-          />
-        ) : null}
-        <Text textStyle="xs" color="ink.700">
-          Records the shock given. Use the defibrillator maker&apos;s energy; this does not set the
-          device.
-        </Text>
       </Stack>
     </PadGroup>
   );
-}
+});

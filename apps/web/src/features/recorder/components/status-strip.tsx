@@ -45,8 +45,8 @@ function Tile({
       bg={c.bg}
       color={c.fg}
       borderRadius="l2"
-      px={{ base: '2', md: '3' }}
-      py={{ base: '1', md: '2' }}
+      px="2"
+      py="1"
       minW="0"
       data-testid={testId}
       data-tone={tone}
@@ -64,7 +64,7 @@ function Tile({
       <Flex align="center" gap="2">
         {shape ? <Shape kind={shape} size="1.5em" /> : null}
         <Text
-          textStyle={{ base: 'xl', md: '2xl' }}
+          textStyle="xl"
           fontWeight="bold"
           lineHeight="1.1"
           fontVariantNumeric="tabular-nums"
@@ -74,7 +74,7 @@ function Tile({
         </Text>
       </Flex>
       {note ? (
-        <Text textStyle="sm" fontWeight="bold" lineHeight="1.2" truncate>
+        <Text textStyle="xs" fontWeight="bold" lineHeight="1.2" truncate>
           {note}
         </Text>
       ) : null}
@@ -145,7 +145,7 @@ function ReminderBar({ reminders, warning }: { reminders: readonly Reminder[]; w
   const shown = reminders.filter((r) => r.kind !== 'rhythm-check' && r.kind !== 'pause' && r.kind !== 'epinephrine');
   if (shown.length === 0 && !warning) return null;
   return (
-    <Stack gap="1" mt="2" data-testid="pad-reminders" aria-live="polite">
+    <Stack gap="1" mt="1.5" data-testid="pad-reminders" aria-live="polite">
       {warning ? <ReminderLine tone="due" shape="triangle" word="CHECK" text={warning} testId="pad-category-warning" /> : null}
       {shown.map((r) => (
         <ReminderLine key={r.kind} tone={SEVERITY_TONE[r.severity]} shape={SEVERITY_SHAPE[r.severity]} word={REMINDER_WORDS[r.state]} text={r.message} testId={`pad-reminder-${r.kind}`} />
@@ -157,12 +157,12 @@ function ReminderBar({ reminders, warning }: { reminders: readonly Reminder[]; w
 function ReminderLine({ tone, shape, word, text, testId }: { tone: Tone; shape: ShapeKind; word: string; text: string; testId: string }) {
   const c = TONE_COLORS[tone];
   return (
-    <Flex bg={c.bg} color={c.fg} borderRadius="l2" px="2" py="1" gap="2" align="center" data-testid={testId}>
-      <Shape kind={shape} size="1.3em" />
-      <Text textStyle="sm" fontWeight="black" flexShrink={0}>
+    <Flex bg={c.bg} color={c.fg} borderRadius="l2" px="2" py="0.5" gap="2" align="center" data-testid={testId}>
+      <Shape kind={shape} size="1.2em" />
+      <Text textStyle="xs" fontWeight="black" flexShrink={0}>
         {word}
       </Text>
-      <Text textStyle="sm" fontWeight="bold" lineHeight="1.2">
+      <Text textStyle="xs" fontWeight="bold" lineHeight="1.2">
         {text}
       </Text>
     </Flex>
@@ -188,22 +188,22 @@ export function StatusStrip({
   const r = stateReadings(s);
   return (
     <Box
-      position="sticky"
+      position={{ base: 'sticky', md: 'static' }}
       top="0"
       zIndex="sticky"
       bg="ink.950"
       mx={{ base: '-3', md: '0' }}
-      px="2"
-      py="2"
+      p="1.5"
       borderRadius={{ base: '0', md: 'l3' }}
       data-testid="status-strip"
     >
       <Grid
         templateColumns={{
           base: 'repeat(3, minmax(0, 1fr))',
-          lg: '1.1fr 1.3fr 1.5fr 1fr 0.9fr 1.2fr',
+          md: '1.1fr 1.3fr 1.5fr 1fr 0.9fr 1.2fr',
+          lg: 'repeat(2, minmax(0, 1fr))',
         }}
-        gap="2"
+        gap="1.5"
       >
         <ReadingTile label="Since arrest" reading={r.arrest} testId="clock-arrest" />
         <ReadingTile label="Compression cycle" reading={r.compressions} testId="clock-cycle" />

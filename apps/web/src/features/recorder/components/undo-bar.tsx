@@ -46,13 +46,14 @@ export function UndoBar({
         borderStyle="dashed"
         borderColor="ink.200"
         borderRadius="l3"
-        px="3"
-        py="2"
-        minH="20"
-        display={{ base: 'none', lg: 'flex' }}
+        px="2"
+        py="1"
+        minH="12"
+        display={{ base: 'none', md: 'flex' }}
         alignItems="center"
+        flexShrink={0}
       >
-        <Text textStyle="sm" color="ink.700">
+        <Text textStyle="xs" color="ink.700">
           After each tap, Undo stays here for 5 seconds. Later, void an entry from the list below.
         </Text>
       </Box>
@@ -63,15 +64,16 @@ export function UndoBar({
       bg="ink.900"
       color="white"
       borderRadius="l3"
-      px="3"
-      py="2"
+      px="2"
+      py="1.5"
+      flexShrink={0}
       data-testid="undo-bar"
       role="status"
       aria-live="polite"
     >
-      <Flex align="center" gap="2" mb="2">
-        <Shape kind="check" size="1.3em" color="seaglass.300" />
-        <Text textStyle="md" fontWeight="bold" lineClamp={2}>
+      <Flex align="center" gap="2" mb="1">
+        <Shape kind="check" size="1.2em" color="seaglass.300" />
+        <Text textStyle="sm" fontWeight="bold" lineClamp={1}>
           Saved on this tablet: {describeEntry(tap.entry, protocol)}
         </Text>
       </Flex>
@@ -79,11 +81,12 @@ export function UndoBar({
         {canUndo ? (
           <Button
             flex="1"
-            minH="16"
+            minH="12"
             colorPalette="signal"
             bg="signal.300"
             color="ink.950"
-            textStyle="xl"
+            textStyle="lg"
+            data-pad-action=""
             data-testid="undo"
             onClick={onUndo}
           >
@@ -93,16 +96,18 @@ export function UndoBar({
         {showDose ? (
           <Button
             flex="1"
-            minH="16"
+            minH="12"
             variant="outline"
             color="white"
             borderColor="ink.200"
             _hover={{ bg: 'ink.700' }}
             whiteSpace="normal"
+            textStyle="sm"
+            lineHeight="1.1"
             data-testid="change-dose"
             onClick={onChangeDose}
           >
-            Change dose / route
+            Change dose or route
           </Button>
         ) : null}
       </Flex>

@@ -47,7 +47,7 @@ export function RecordsTable({ records, empty }: { records: RecordListItem[]; em
                 >
                   <RouterLink
                     to={paths.codes.review.getHref(code.id)}
-                    aria-label={`Open the record: ${code.location ?? 'code'}, ${formatDateTime(code.arrestAt)}`}
+                    aria-label={`${status === 'signed' ? 'Open' : 'Review and sign'} the record: ${code.location ?? 'code'}, ${formatDateTime(code.arrestAt)}`}
                   >
                     {status === 'signed' ? 'Open' : 'Review and sign'}
                   </RouterLink>

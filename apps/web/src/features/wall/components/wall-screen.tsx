@@ -29,7 +29,7 @@ import { CodePictureView } from '../../../components/code-picture';
 import { Shape } from '../../../components/ui/shapes';
 import { paths } from '../../../config/paths';
 import { describeEntry, formatDose, OUTCOME_WORDS } from '../../../lib/live/entry-words';
-import { useCodeTimeline } from '../../../lib/live/use-code-timeline';
+import { lastMoment, useCodeTimeline } from '../../../lib/live/use-code-timeline';
 import { codeDetailQueryKey, useLiveCode, type LiveSyncState } from '../../../lib/live/use-live-code';
 import { protocolKeys } from '../../../lib/protocol';
 import { useSecondTick } from '../../../lib/live/use-second-tick';
@@ -106,8 +106,10 @@ function Wall({
   protocol: ProtocolSettings;
 }) {
   const { entries, clock, sync } = live;
-  const nowMs = useSecondTick(clock.correctedNow);
+  const tickMs = useSecondTick(clock.correctedNow);
   const timeline = useCodeTimeline(code, protocol, entries);
+  // The tick is whole seconds: an entry tapped since the last one is shown at once, not up to a second later.
+  const nowMs = Math.max(tickMs, lastMoment(timeline));
   // A child's wall also carries the doses: fewer last entries, so nothing scrolls.
   const s = stateAt(timeline, nowMs, { recentCount: code.category === 'pediatric' ? 4 : WALL_RECENT });
 
