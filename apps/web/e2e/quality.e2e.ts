@@ -3,54 +3,9 @@ import { readFileSync } from 'node:fs';
 import { UTSTEIN_CSV_COLUMNS, type QualityListResponse } from '@steadyhand/shared';
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { apiSession } from './support/api-session.js';
 import { launchChromium, newContext, screenshot, signInAs } from './support/browser.js';
 import { DEMO_PASSWORD, startServer, type RunningServer } from './support/server.js';
-
-/** A signed-in HTTP session from Node, as the web app makes one (CSRF, sign-in, new token). */
-async function session(baseUrl: string, username: string) {
-  const cookieOf = (res: Response) =>
-    res.headers
-      .getSetCookie()
-      .map((c) => c.split(';')[0])
-      .join('; ');
-  const first = await fetch(`${baseUrl}/api/auth/csrf`);
-  const pre = cookieOf(first);
-  const { token } = (await first.json()) as { token: string };
-  const login = await fetch(`${baseUrl}/api/auth/login`, {
-    method: 'POST',
-    headers: {
-      'content-type': 'application/json',
-      'x-csrf-token': token,
-      cookie: pre,
-      origin: baseUrl,
-    },
-    body: JSON.stringify({ username, password: DEMO_PASSWORD }),
-  });
-  if (login.status !== 200) throw new Error(`sign-in of ${username}: ${login.status}`);
-  const cookie = cookieOf(login) || pre;
-  const { token: csrf } = (await (
-    await fetch(`${baseUrl}/api/auth/csrf`, { headers: { cookie } })
-  ).json()) as { token: string };
-  const call = async (method: string, path: string, body?: unknown) => {
-    const res = await fetch(`${baseUrl}${path}`, {
-      method,
-      headers: {
-        'content-type': 'application/json',
-        'x-csrf-token': csrf,
-        cookie,
-        origin: baseUrl,
-      },
-      body: body === undefined ? undefined : JSON.stringify(body),
-    });
-    if (res.status >= 300) throw new Error(`${method} ${path}: ${res.status} ${await res.text()}`);
-    return (await res.json()) as Record<string, unknown>;
-  };
-  return {
-    get: (path: string) => call('GET', path),
-    post: (path: string, body: unknown) => call('POST', path, body),
-    patch: (path: string, body: unknown) => call('PATCH', path, body),
-  };
-}
 
 type Fields = Record<string, unknown> & { kind: string };
 // The machines are small and busy: give the page time to answer.
@@ -65,9 +20,9 @@ describe('quality review, in Chromium', () => {
   beforeAll(async () => {
     server = await startServer();
     browser = await launchChromium();
-    const recorder = await session(server.baseUrl, 'maren.holt');
-    const leader = await session(server.baseUrl, 'kofi.asante');
-    const reviewer = await session(server.baseUrl, 'ewan.trelawny');
+    const recorder = await apiSession(server.baseUrl, 'maren.holt');
+    const leader = await apiSession(server.baseUrl, 'kofi.asante');
+    const reviewer = await apiSession(server.baseUrl, 'ewan.trelawny');
     const { units } = (await reviewer.get('/api/quality/codes')) as unknown as QualityListResponse;
     const unit = (name: string) => units.find((u) => u.name === name)?.id;
 
