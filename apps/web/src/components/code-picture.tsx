@@ -187,7 +187,8 @@ export function CodePictureView({
           width={picture.width}
           height={picture.height}
           viewBox={`0 0 ${picture.width} ${picture.height}`}
-          role="img"
+          // With marks to focus, a group of buttons; without, one image (an image's parts are not reachable).
+          role={interactive ? 'group' : 'img'}
           aria-label={label}
           data-testid="code-picture"
           style={{ display: 'block', maxWidth: '100%', height: 'auto' }}
