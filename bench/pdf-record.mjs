@@ -105,12 +105,11 @@ const keyId = createHash('sha256').update(publicKey.export({ format: 'der', type
 async function recordPdf() {
   const digest = recordDigest(record);
   const timeline = foldLog(record.code, record.entries, DEFAULT_PROTOCOL);
-  const summary = summarize(timeline);
   const generatedAt = new Date().toISOString();
   const signature = sign(null, Buffer.from(pdfStampText({ recordId: record.code.id, digest, generatedAt })), privateKey).toString('base64url');
   return renderPdf(
     buildRecordPdf({
-      record, digest, chain, integrity: { valid: true, problems: [] }, status: 'draft', summary, timeline, settings: DEFAULT_PROTOCOL, signatures: [], people, timeZone: 'UTC', generatedAt, keyId,
+      record, digest, chain, integrity: { valid: true, problems: [] }, status: 'draft', timeline, signatures: [], people, timeZone: 'UTC', generatedAt, keyId,
       stamp: formatPdfStamp({ recordId: record.code.id, digest, signature, generatedAt, keyId }),
     }),
   );
@@ -239,9 +238,8 @@ if (args.parts) {
   };
   const digest = recordDigest(record);
   const timeline = foldLog(record.code, record.entries, DEFAULT_PROTOCOL);
-  const summary = summarize(timeline);
   const generatedAt = new Date().toISOString();
-  const input = { record, digest, chain, integrity: { valid: true, problems: [] }, status: 'draft', summary, timeline, settings: DEFAULT_PROTOCOL, signatures: [], people, timeZone: 'UTC', generatedAt, keyId, stamp: 'x' };
+  const input = { record, digest, chain, integrity: { valid: true, problems: [] }, status: 'draft', timeline, signatures: [], people, timeZone: 'UTC', generatedAt, keyId, stamp: 'x' };
   const def = () => buildRecordPdf(input);
   const without = (change) => async () => renderPdf(change(def()));
   const rows = [

@@ -4,12 +4,12 @@ import {
   codePicture,
   codePictureSvg,
   effectiveEntries,
-  foldLog,
   flaggedDoseText,
   resolveDrug,
   SIGNATURE_MEANING_TEXT,
   SIGNATURE_MEANINGS,
   SUMMARY_DEFINITIONS,
+  summarize,
   UTSTEIN_FIELD_LABELS,
   UTSTEIN_GROUPS,
   utsteinValueText,
@@ -73,10 +73,8 @@ export interface RecordPdfInput {
   /** Every tamper check as of printing: a failure is printed on the first page and at every foot. */
   integrity: RecordIntegrity;
   status: RecordStatus;
-  summary: CodeSummary;
-  /** The fold the summary was read from; folded here when absent. */
-  timeline?: Timeline;
-  settings: ProtocolSettings;
+  /** The one fold of the record's log, with the code's own protocol version: summary, picture and settings all read it. */
+  timeline: Timeline;
   signatures: RecordSignature[];
   /** userId → printed name, for the "recorded by" column (an entry's own kept name comes first). */
   people: ReadonlyMap<string, string>;
@@ -279,7 +277,9 @@ function registryDetails(details: UtsteinDetails, addenda: NonNullable<Canonical
 }
 
 export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
-  const { record, digest, summary: s, settings, status, people } = input;
+  const { record, digest, timeline: folded, status, people } = input;
+  const settings = folded.protocol;
+  const s = summarize(folded);
   const code = record.code;
   const clock = makeClock(input.timeZone, code.arrestAt);
   const arrestMs = Date.parse(code.arrestAt);
@@ -302,7 +302,6 @@ export function buildRecordPdf(input: RecordPdfInput): TDocumentDefinitions {
   const weight = code.weightKg !== null ? `${num(code.weightKg)} kg` : 'weight not recorded';
 
   // --- the picture: vector, from the same fold as the summary ---
-  const folded = input.timeline ?? foldLog(code, record.entries, settings);
   const pictureWidth = 523; // A4 less the side margins
   const picture: Content = { svg: codePictureSvg(codePicture(folded, { width: pictureWidth, scale: 0.85 }), { font: 'Atkinson' }), width: pictureWidth };
 

@@ -17,7 +17,6 @@ import {
   WRITER_ROLES,
   SIGNATURE_MEANING_ROLE,
   SIGNATURE_MEANING_TEXT,
-  summarize,
   type NewEntry,
   type RecordListItem,
   type RecordPublicKeys,
@@ -433,8 +432,6 @@ export class RecordsService implements OnModuleInit {
     const { record, digest } = view;
     // The code's own protocol version: an admin's later change never alters its record.
     const timeline = this.codes.timelineOf(record.code, record.entries);
-    const settings = timeline.protocol;
-    const summary = summarize(timeline);
     const generatedAt = this.signingTime(Date.now());
     const key = this.recordKeys().current;
     const signature = signText(key.privateKey, pdfStampText({ recordId: id, digest, generatedAt }));
@@ -444,9 +441,7 @@ export class RecordsService implements OnModuleInit {
       chain: view.chain,
       integrity: view.integrity,
       status: view.status,
-      summary,
       timeline,
-      settings,
       signatures: view.signatures,
       people: this.peopleOf(record),
       timeZone: this.timeZone(),
