@@ -211,8 +211,11 @@ export class CodesService {
     return this.protocol.forCode(code);
   }
 
-  /** The code's log folded once with its own protocol version: every figure is read from this. */
-  timelineOf(code: Code, entries: readonly StoredEntry[]): Timeline {
+  /**
+   * The code's log folded once with its own protocol version: every figure is read from this.
+   * `entries` when the caller already holds them (a record as read for signing); else the stored log.
+   */
+  timelineOf(code: Code, entries: readonly StoredEntry[] = this.repo.entriesOf(code.id)): Timeline {
     return foldLog(code, entries, this.protocol.forCode(code));
   }
 

@@ -41,7 +41,7 @@ export class QualityMetricsService implements OnApplicationBootstrap {
       if (removeIfOpen) this.repo.deleteMetrics(codeId);
       return;
     }
-    this.repo.upsertMetrics(computeCodeMetrics(code, this.codes.timelineOf(code, this.codes.entriesOf(codeId)), this.codes.utsteinOf(codeId)));
+    this.repo.upsertMetrics(computeCodeMetrics(code, this.codes.timelineOf(code), this.codes.utsteinOf(codeId)));
   }
 
   // The listener runs inside the entry's request after its commit: a failure here must never fail the tap.

@@ -45,7 +45,7 @@ export class QualityService {
 
   detail(id: string): QualityCodeDetail {
     const code = this.codes.get(id);
-    const summary = summarize(this.codes.timelineOf(code, this.codes.entriesOf(id)));
+    const summary = summarize(this.codes.timelineOf(code));
     const utstein = this.codes.utsteinOf(id);
     return {
       code: {
@@ -131,7 +131,7 @@ export class QualityService {
     const rows = ids.flatMap((id) => {
       const code = this.codes.find(id);
       if (!code) return [];
-      const summary = summarize(this.codes.timelineOf(code, this.codes.entriesOf(id)));
+      const summary = summarize(this.codes.timelineOf(code));
       const followUp = followUps.get(id);
       return [
         utsteinRow({
@@ -152,7 +152,7 @@ export class QualityService {
     const code = this.codes.get(id);
     const signatures = this.repo.signaturesOf(id);
     if (signatures.length === 0) throw new ConflictException('The record is not signed yet: the FHIR document is made from a signed record');
-    const timeline = this.codes.timelineOf(code, this.codes.entriesOf(id));
+    const timeline = this.codes.timelineOf(code);
     const bundle = buildFhirBundle({
       code,
       timeline,
